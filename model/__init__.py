@@ -1,0 +1,1 @@
+"""Model: components, streams, blocks, flowsheet, solve, case files (no Qt)."""

@@ -1,0 +1,50 @@
+"""The project's own rules, checked by the same test command as everything else."""
+
+from __future__ import annotations
+
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def _tool(name: str) -> str:
+    """Find a console tool installed beside this Python (the venv's bin folder)."""
+    candidate = Path(sys.executable).parent / name
+    found = str(candidate) if candidate.exists() else shutil.which(name)
+    if found is None:
+        pytest.fail(f"{name} is not installed; install the test extras: pip install -e '.[test]'")
+    return found
+
+
+def test_layer_contracts_hold() -> None:
+    """DESIGN.md layers, as import-linter contracts in pyproject.toml."""
+    run = subprocess.run(
+        [_tool("lint-imports"), "--no-cache"], cwd=ROOT, capture_output=True, text=True
+    )
+    assert run.returncode == 0, run.stdout + run.stderr
+
+
+def test_ruff_is_clean() -> None:
+    run = subprocess.run(
+        [_tool("ruff"), "check", "gui", "model", "convergence", "units_of_measure", "tests"],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+    )
+    assert run.returncode == 0, run.stdout + run.stderr
+
+
+def test_model_imports_without_qt() -> None:
+    """The model and the numerics load in a process that never sees Qt."""
+    code = (
+        "import sys, model.flowsheet, model.block_kinds, convergence, units_of_measure;"
+        "bad = [m for m in sys.modules if m.startswith(('PySide6', 'pyqtgraph'))];"
+        "print(bad); sys.exit(1 if bad else 0)"
+    )
+    run = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True)
+    assert run.returncode == 0, run.stdout + run.stderr
