@@ -1,1 +1,33 @@
-"""Numerical methods for fixed-point problems x = g(x) on plain numpy vectors."""
+"""Numerical methods for fixed-point problems x = g(x) on plain numpy vectors.
+
+Direct substitution, bounded Wegstein (Wegstein 1958, CACM 1(6)) and a quasi-Newton
+method (Broyden) behind one entry point, :func:`solve_fixed_point`, with live settings,
+per-tear history and tear diagnosis. Imports numpy and scipy only.
+"""
+
+from convergence.diagnosis import TearDiagnosis, diagnose_tears, suggested_bounds
+from convergence.errors import ConvergenceInputError, UnknownSettingError
+from convergence.history import ConvergenceHistory, Event, IterationRecord, QStats
+from convergence.problem import FixedPointProblem
+from convergence.settings import SETTING_NAMES, SettingsSnapshot, SolverSettings
+from convergence.solver import METHODS, STATUSES, FixedPointResult, solve_fixed_point
+
+__all__ = [
+    "METHODS",
+    "SETTING_NAMES",
+    "STATUSES",
+    "ConvergenceHistory",
+    "ConvergenceInputError",
+    "Event",
+    "FixedPointProblem",
+    "FixedPointResult",
+    "IterationRecord",
+    "QStats",
+    "SettingsSnapshot",
+    "SolverSettings",
+    "TearDiagnosis",
+    "UnknownSettingError",
+    "diagnose_tears",
+    "solve_fixed_point",
+    "suggested_bounds",
+]

@@ -1,0 +1,217 @@
+"""What a run records: one record per iteration, and events (settings changed, stopped ...).
+
+Everything here is plain data that the recycle monitor plots and that a case file
+stores (:meth:`ConvergenceHistory.to_dict` gives JSON-able values).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from convergence.settings import SettingsSnapshot
+
+
+def _median(values: np.ndarray) -> float:
+    """Median by one partial sort (np.median's result, with less per-call overhead)."""
+    half = values.size // 2
+    if values.size % 2:
+        return float(np.partition(values, half)[half])
+    middle = np.partition(values, (half - 1, half))
+    return float(0.5 * (middle[half - 1] + middle[half]))
+
+
+@dataclass(frozen=True)
+class QStats:
+    """Statistics of the per-variable q of one tear for one accelerated step.
+
+    ``clipped_low``/``clipped_high`` count variables whose q = s/(s-1) fell below q_min or
+    above q_max; ``guarded`` counts variables whose step was too small for a slope (they
+    took q = 0 clipped to the bounds).
+    """
+
+    minimum: float
+    median: float
+    maximum: float
+    clipped_low: int
+    clipped_high: int
+    count: int
+    guarded: int = 0
+
+    @classmethod
+    def per_tear(
+        cls,
+        tear_slices: dict[str, slice],
+        q: np.ndarray,
+        q_raw: np.ndarray,
+        guarded: np.ndarray,
+        q_min: float,
+        q_max: float,
+    ) -> dict[str, QStats]:
+        """Statistics of the clipped ``q`` (unclipped: ``q_raw``) for every tear."""
+        below = q_raw < q_min
+        above = q_raw > q_max
+        return {
+            tear: cls(
+                minimum=float(q[part].min()),
+                median=_median(q[part]),
+                maximum=float(q[part].max()),
+                clipped_low=int(np.count_nonzero(below[part])),
+                clipped_high=int(np.count_nonzero(above[part])),
+                count=int(q[part].size),
+                guarded=int(np.count_nonzero(guarded[part])),
+            )
+            for tear, part in tear_slices.items()
+        }
+
+
+@dataclass(frozen=True)
+class IterationRecord:
+    """One iteration: one evaluation of g at x_k and the step computed from it.
+
+    Attributes
+    ----------
+    iteration
+        1 for the evaluation at x0.
+    evaluations
+        Calls of g so far (flowsheet passes).
+    residuals
+        Per tear, the largest scaled residual of g(x_k) - x_k.
+    q
+        Per tear, q statistics of the step computed after this evaluation; ``None`` for
+        a direct-substitution step, a quasi-Newton step or no step (last iteration).
+    settings_version, settings
+        The settings in force for this iteration.
+    slopes
+        Per tear, the dominant slope of g along the last step (``None`` at the first
+        iteration or when the step was too small).
+    step
+        ``"direct"``, ``"accelerated"``, ``"quasi-Newton"`` or ``"none"``.
+    worst_variable
+        Name of the variable with the largest scaled residual.
+    """
+
+    iteration: int
+    evaluations: int
+    residuals: dict[str, float]
+    q: dict[str, QStats | None]
+    settings_version: int
+    settings: SettingsSnapshot
+    slopes: dict[str, float | None] = field(default_factory=dict)
+    step: str = "direct"
+    worst_variable: str = ""
+
+    @property
+    def largest_residual(self) -> float:
+        """Largest scaled residual over all tears."""
+        return max(self.residuals.values())
+
+
+@dataclass(frozen=True)
+class Event:
+    """Something that happened during a run, at an iteration.
+
+    ``kind`` is one of ``"settings changed"``, ``"stopped"``, ``"diverging"``,
+    ``"not finite"``, ``"converged"``, ``"iteration limit"``, ``"restart"``.
+    """
+
+    iteration: int
+    kind: str
+    detail: str
+
+
+def _record_to_dict(record: IterationRecord) -> dict[str, Any]:
+    return {
+        "iteration": record.iteration,
+        "evaluations": record.evaluations,
+        "residuals": dict(record.residuals),
+        "q": {
+            tear: None if stats is None else dataclasses.asdict(stats)
+            for tear, stats in record.q.items()
+        },
+        "settings_version": record.settings_version,
+        "slopes": dict(record.slopes),
+        "step": record.step,
+        "worst_variable": record.worst_variable,
+    }
+
+
+def _record_from_dict(
+    data: dict[str, Any], snapshots: dict[int, SettingsSnapshot]
+) -> IterationRecord:
+    return IterationRecord(
+        iteration=int(data["iteration"]),
+        evaluations=int(data["evaluations"]),
+        residuals={tear: float(value) for tear, value in data["residuals"].items()},
+        q={tear: None if stats is None else QStats(**stats) for tear, stats in data["q"].items()},
+        settings_version=int(data["settings_version"]),
+        settings=snapshots[int(data["settings_version"])],
+        slopes={
+            tear: None if value is None else float(value)
+            for tear, value in data.get("slopes", {}).items()
+        },
+        step=str(data.get("step", "direct")),
+        worst_variable=str(data.get("worst_variable", "")),
+    )
+
+
+@dataclass
+class ConvergenceHistory:
+    """Records of every iteration and the events of a run, in order."""
+
+    records: list[IterationRecord] = field(default_factory=list)
+    events: list[Event] = field(default_factory=list)
+
+    def residuals(self, tear: str) -> np.ndarray:
+        """Largest scaled residual of ``tear`` at every iteration."""
+        return np.array([record.residuals[tear] for record in self.records], dtype=float)
+
+    def q_median(self, tear: str) -> np.ndarray:
+        """Median q of ``tear`` at every iteration (nan where no q was used)."""
+        return np.array(
+            [
+                np.nan if record.q.get(tear) is None else record.q[tear].median
+                for record in self.records
+            ],
+            dtype=float,
+        )
+
+    def slopes(self, tear: str) -> np.ndarray:
+        """Dominant slope of ``tear`` at every iteration (nan where unknown)."""
+        return np.array(
+            [
+                np.nan if record.slopes.get(tear) is None else record.slopes[tear]
+                for record in self.records
+            ],
+            dtype=float,
+        )
+
+    def events_of(self, kind: str) -> list[Event]:
+        """Events of one kind, in order."""
+        return [event for event in self.events if event.kind == kind]
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-able form; each settings version is stored once."""
+        snapshots = {record.settings_version: record.settings for record in self.records}
+        return {
+            "settings": {
+                str(version): snapshot.values() for version, snapshot in snapshots.items()
+            },
+            "records": [_record_to_dict(record) for record in self.records],
+            "events": [dataclasses.asdict(event) for event in self.events],
+        }
+
+    @classmethod
+    def from_dict(cls, data: dict[str, Any]) -> ConvergenceHistory:
+        """Inverse of :meth:`to_dict`."""
+        snapshots = {
+            int(version): SettingsSnapshot(**values, version=int(version))
+            for version, values in data.get("settings", {}).items()
+        }
+        return cls(
+            records=[_record_from_dict(record, snapshots) for record in data.get("records", [])],
+            events=[Event(**event) for event in data.get("events", [])],
+        )

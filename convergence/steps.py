@@ -1,0 +1,119 @@
+"""The step rules: direct substitution and bounded Wegstein (Wegstein 1958, CACM 1(6)).
+
+Each rule turns the evaluated point (x_k, g(x_k)) and the previous one into the next
+iterate. All work is elementwise numpy on the whole vector: O(n) per iteration.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from convergence.problem import TearLayout
+from convergence.settings import SettingsSnapshot
+
+
+@dataclass
+class Step:
+    """The next iterate and how it was made.
+
+    ``q``, ``q_raw`` and ``guarded`` are per-variable arrays for an accelerated step
+    (``q_raw`` = s/(s-1) before clipping; ``guarded`` marks variables whose step was too
+    small for a slope) and ``None`` otherwise. ``note`` is an event worth recording.
+    """
+
+    x_new: np.ndarray
+    kind: str
+    q: np.ndarray | None = None
+    q_raw: np.ndarray | None = None
+    guarded: np.ndarray | None = None
+    note: str | None = None
+
+
+@dataclass
+class Evaluated:
+    """An evaluated point and its differences from the previous one.
+
+    ``fx`` = g(x_k) - x_k and ``scale`` is the residual scale at x_k. ``step`` =
+    x_k - x_{k-1}, ``g_step`` = g(x_k) - g(x_{k-1}) and ``usable`` (steps large enough
+    for a slope) are ``None`` at the first iteration.
+    """
+
+    iteration: int
+    x: np.ndarray
+    gx: np.ndarray
+    fx: np.ndarray
+    scale: np.ndarray
+    step: np.ndarray | None = None
+    g_step: np.ndarray | None = None
+    usable: np.ndarray | None = None
+
+
+def accelerates(iteration: int, settings: SettingsSnapshot) -> bool:
+    """True when ``iteration`` takes an accelerated step under ``settings``.
+
+    Iterations 1..direct_steps are direct substitution; after that every
+    ``acceleration_interval``-th iteration is accelerated, starting with the first.
+    """
+    after = iteration - settings.direct_steps - 1
+    return after >= 0 and after % settings.acceleration_interval == 0
+
+
+def wegstein_q(slope_numerator: np.ndarray, step: np.ndarray, usable: np.ndarray) -> np.ndarray:
+    """Unclipped Wegstein q = s/(s-1) with s = Δg/Δx, and s = 0 (q = 0) where not usable.
+
+    s = 1 exactly gives q = +inf, which the bounds clip to q_max.
+    """
+    slope = np.zeros_like(step)
+    np.divide(slope_numerator, step, out=slope, where=usable)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return slope / (slope - 1.0)
+
+
+class DirectSubstitution:
+    """x_{k+1} = g(x_k)."""
+
+    def __init__(self, layout: TearLayout) -> None:
+        self.layout = layout
+
+    def next_point(self, point: Evaluated, settings: SettingsSnapshot) -> Step:
+        """Take the evaluated g(x_k) as the next iterate."""
+        return Step(x_new=point.gx, kind="direct")
+
+
+class BoundedWegstein:
+    """Bounded Wegstein, per variable: x_{k+1} = q x_k + (1 - q) g(x_k), q in [q_min, q_max].
+
+    The update is computed as ``x + (1 - q) * (g(x) - x)``, the same floating-point form
+    as polykin's ``fixpoint_wegstein``. Guard: a variable whose step
+    ``|x_k - x_{k-1}|`` is below ``STEP_GUARD`` times its scale gives no trustworthy
+    slope; it takes s = 0, i.e. q = 0 (direct substitution) clipped into the bounds,
+    which is safe whatever the last q was. In ``"held"`` mode q is estimated per
+    variable at the first accelerated step (from the direct-substitution steps before
+    it) and held; a change of bounds re-clips the held estimate.
+    """
+
+    def __init__(self, layout: TearLayout) -> None:
+        self.layout = layout
+        self.held_q_raw: np.ndarray | None = None
+        self.held_guarded: np.ndarray | None = None
+
+    def next_point(self, point: Evaluated, settings: SettingsSnapshot) -> Step:
+        """Direct substitution or an accelerated step, as the settings say."""
+        if settings.q_mode != "held":
+            self.held_q_raw = None
+        if point.step is None or not accelerates(point.iteration, settings):
+            return Step(x_new=point.gx, kind="direct")
+        if settings.q_mode == "held" and self.held_q_raw is not None:
+            q_raw, guarded = self.held_q_raw, self.held_guarded
+        else:
+            q_raw, guarded = self._latest_q(point)
+            if settings.q_mode == "held":
+                self.held_q_raw, self.held_guarded = q_raw, guarded
+        q = np.clip(q_raw, settings.q_min, settings.q_max)
+        x_new = point.x + (1.0 - q) * point.fx
+        return Step(x_new=x_new, kind="accelerated", q=q, q_raw=q_raw, guarded=guarded)
+
+    def _latest_q(self, point: Evaluated) -> tuple[np.ndarray, np.ndarray]:
+        return wegstein_q(point.g_step, point.step, point.usable), ~point.usable
