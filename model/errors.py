@@ -49,3 +49,47 @@ class CaseFileError(LoopwrightError):
 
 
 __all__ += ["CaseProblem", "CaseFileError"]
+
+
+# ---- components and property data (helper "components") -------------------------
+class ComponentNotFoundError(InputError):
+    """A component name, formula or CAS number that the property database does not know.
+
+    Parameters
+    ----------
+    query
+        What the user typed.
+    suggestions
+        Close matches among known component names, best first (may be empty).
+    """
+
+    def __init__(self, query: str, suggestions: list[str]) -> None:
+        self.suggestions = list(suggestions)
+        allowed = "a component name, formula or CAS number known to the chemicals database"
+        if self.suggestions:
+            allowed += "; did you mean " + " or ".join(repr(s) for s in self.suggestions) + "?"
+        super().__init__("component", query, allowed)
+
+
+class ComponentDataError(InputError):
+    """A component found in the database but missing a value the property basis needs."""
+
+
+__all__ += ["ComponentNotFoundError", "ComponentDataError"]
+
+
+# ---- block calculations (helper "model") -----------------------------------------
+class CalculationError(LoopwrightError):
+    """A block that cannot compute its outlets from its inlets and specs.
+
+    For example a conversion that needs more of a reactant than is present, or a duty
+    put into a zero flow. ``block`` names the block; the message says what and why.
+    """
+
+    def __init__(self, block: str, detail: str) -> None:
+        self.block = block
+        self.detail = detail
+        super().__init__(f"{block}: {detail}")
+
+
+__all__ += ["CalculationError"]
