@@ -1,6 +1,6 @@
 """The flowsheet document: components, blocks, streams and their change events.
 
-Views mirror this document through its psygnal signals, which fire only on a real
+Views mirror this document through its signals (model.events), which fire only on a real
 change; edits come through the public methods below, which check their input first
 and leave the document unchanged when they refuse. Nothing here computes a balance:
 see ``model.solve``.
@@ -12,11 +12,13 @@ import itertools
 from dataclasses import dataclass, field
 from typing import Any
 
-from psygnal import Signal
-
 from model.block_kinds import BlockKind, block_kind
 from model.errors import InputError
+from model.events import Signal
 from model.spec_values import StreamEstimate
+
+#: Highest numbered port of a mixer's inlets or a splitter's outlets.
+MAX_NUMBERED_PORT = 999
 
 
 @dataclass(eq=False)
@@ -215,6 +217,19 @@ class Flowsheet:
         used = {s.source_port for s in self.streams.values() if s.source == block_name}
         return _numbered_ports("out", used, len(kind.outlets))
 
+    def _has_port(self, block_name: str, port: str, inlet: bool) -> bool:
+        """Whether the block has this port; a variable-port kind has every numbered one
+        (``in1`` ... ``in999``), so a gap left by a removed stream may stay a gap."""
+        kind = self.block(block_name).block_kind
+        variable = kind.variable_inlets if inlet else kind.variable_outlets
+        if not variable:
+            return port in (kind.inlets if inlet else kind.outlets)
+        prefix = "in" if inlet else "out"
+        number = port.removeprefix(prefix)
+        return (
+            port.startswith(prefix) and number.isdigit() and 1 <= int(number) <= MAX_NUMBERED_PORT
+        )
+
     def stream_into(self, block_name: str, port: str) -> Stream | None:
         for stream in self.streams.values():
             if stream.target == block_name and stream.target_port == port:
@@ -260,7 +275,7 @@ class Flowsheet:
     def insert_stream(self, stream: Stream) -> Stream:
         """Put a stream object (back) into the flowsheet after checking its ports."""
         _check_name("stream name", stream.name, self.streams)
-        if stream.source_port not in self.outlet_ports(stream.source):
+        if not self._has_port(stream.source, stream.source_port, inlet=False):
             raise InputError(
                 f"{stream.name}.from port",
                 f"{stream.source}.{stream.source_port}",
@@ -269,7 +284,7 @@ class Flowsheet:
                 + ": "
                 + ", ".join(self.outlet_ports(stream.source)),
             )
-        if stream.target_port not in self.inlet_ports(stream.target):
+        if not self._has_port(stream.target, stream.target_port, inlet=True):
             raise InputError(
                 f"{stream.name}.to port",
                 f"{stream.target}.{stream.target_port}",
