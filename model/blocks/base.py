@@ -1,0 +1,142 @@
+"""What every compiled block shares, and the energy arithmetic several kinds use.
+
+A compiled block holds its specs as internal floats and numpy arrays (converted once
+by :mod:`model.compile`) and the indices of its streams in the solve's stream list,
+so a pass does no unit conversion and no look-up by name.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from model.errors import CalculationError, InputError
+from model.solution import BlockResult
+from model.stream_state import StreamState
+from model.thermo import T_SEARCH_MAX, T_SEARCH_MIN
+
+#: Relative size below which a negative flow is rounding, silently set to zero.
+ROUNDING = 1e-12
+
+
+@dataclass(kw_only=True)
+class CompiledBlock:
+    """A block ready for the pass: name, kind and its ports with stream indices.
+
+    ``inlet_ports``/``outlet_ports`` are in the kind's port order (numbered ports in
+    numeric order); ``inlet_streams``/``outlet_streams`` are the matching indices into
+    the solve's list of stream states.
+    """
+
+    name: str
+    kind: str
+    inlet_ports: tuple[str, ...]
+    inlet_streams: tuple[int, ...]
+    outlet_ports: tuple[str, ...]
+    outlet_streams: tuple[int, ...]
+
+
+@dataclass
+class BlockOutput:
+    """A block's computed outlets, by outlet port, and its results."""
+
+    outlets: dict[str, StreamState]
+    result: BlockResult
+
+
+def enthalpy(basis, state: StreamState) -> float:
+    """Enthalpy flow of one stream, W (formation basis)."""
+    return basis.stream_enthalpy_flow(state.flows, state.T, state.phase == "liquid")
+
+
+def enthalpies(basis, states: list[StreamState]) -> np.ndarray:
+    """Enthalpy flows of several streams in one vectorised call, W."""
+    flows = np.stack([s.flows for s in states])
+    temperatures = np.array([s.T for s in states])
+    liquid = np.array([s.phase == "liquid" for s in states])
+    return basis.enthalpy_flow(flows, temperatures, liquid)
+
+
+def outlet_pressure(block: CompiledBlock, inlet_pressure: float, pressure_drop: float) -> float:
+    """Inlet pressure less the drop; a drop that leaves no pressure is an error."""
+    pressure = inlet_pressure - pressure_drop
+    if pressure <= 0.0:
+        raise CalculationError(
+            block.name,
+            f"pressure drop {pressure_drop:.6g} Pa exceeds the "
+            f"inlet pressure {inlet_pressure:.6g} Pa",
+        )
+    return pressure
+
+
+def temperature_for_enthalpy(
+    block: CompiledBlock,
+    basis,
+    flows: np.ndarray,
+    target: float,
+    liquid: bool,
+    guess: float,
+    strict: bool,
+    warnings: list[str],
+    what: str = "outlet",
+) -> float:
+    """Temperature at which ``flows`` carry enthalpy ``target`` (W).
+
+    A zero flow carries no enthalpy: its temperature is ``guess`` (the inlet's) when
+    the target is zero; a non-zero target into a zero flow is an error in a strict
+    pass, and a warning (temperature left at ``guess``) while the recycle iterates.
+    """
+    if flows.sum() <= 0.0:
+        if abs(target) > 0.0:
+            detail = f"{target:.6g} W cannot go into the zero flow of the {what}"
+            if strict:
+                raise CalculationError(block.name, detail)
+            warnings.append(detail)
+        return guess
+    try:
+        return float(basis.temperature_from_enthalpy(flows, target, liquid, guess))
+    except InputError as error:
+        if strict:
+            raise CalculationError(block.name, f"{what}: {error.allowed}") from None
+        # While the recycle iterates, tear values may ask the impossible for a moment
+        # (e.g. more heat than a still-small flow can give): hold the bracket's end.
+        reachable = basis.stream_enthalpy_flow(flows, guess, liquid)
+        limit = T_SEARCH_MIN if target < reachable else T_SEARCH_MAX
+        warnings.append(f"{what}: no temperature gives {target:.6g} W; held at {limit:g} K")
+        return limit
+
+
+def energy_outlet(
+    block: CompiledBlock,
+    basis,
+    flows: np.ndarray,
+    phase: str,
+    enthalpy_in: float,
+    mode: str,
+    set_temperature: float | None,
+    set_duty: float | None,
+    inlet_T: float,
+    strict: bool,
+    warnings: list[str],
+) -> tuple[float, float]:
+    """Outlet temperature and duty for the modes "outlet temperature", "adiabatic", "duty".
+
+    The duty is the heat added, ``H_out - H_in`` (W); ``enthalpy_in`` is the inlet's.
+    """
+    liquid = phase == "liquid"
+    if mode == "outlet temperature":
+        out = basis.stream_enthalpy_flow(flows, set_temperature, liquid)
+        return float(set_temperature), out - enthalpy_in
+    duty = 0.0 if mode == "adiabatic" else float(set_duty)
+    T = temperature_for_enthalpy(
+        block, basis, flows, enthalpy_in + duty, liquid, inlet_T, strict, warnings
+    )
+    if flows.sum() <= 0.0:
+        duty = 0.0
+    return T, duty
+
+
+def clip_rounding(flows: np.ndarray, scale: float) -> np.ndarray:
+    """Zero the negative entries that are rounding error relative to ``scale``."""
+    return np.where(flows < 0.0, np.where(flows > -ROUNDING * scale, 0.0, flows), flows)

@@ -1,0 +1,78 @@
+"""Mixer: adiabatic mixing of any number of inlets (ideal: no heat of mixing)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from model.block_kinds import AS_INLET
+from model.blocks.base import BlockOutput, CompiledBlock, enthalpies, temperature_for_enthalpy
+from model.errors import CalculationError
+from model.solution import BlockResult
+from model.stream_state import StreamState
+
+
+@dataclass(kw_only=True)
+class CompiledMixer(CompiledBlock):
+    """``phase`` None keeps the inlets' common phase; ``P`` None takes the lowest inlet P."""
+
+    phase: str | None
+    P: float | None
+
+
+def build_mixer(common: dict[str, Any], specs: dict[str, Any], basis) -> CompiledMixer:
+    phase = specs.get("phase", AS_INLET)
+    return CompiledMixer(**common, phase=None if phase == AS_INLET else phase, P=specs.get("P"))
+
+
+def _outlet_phase(block: CompiledMixer, inlets: list[StreamState]) -> str:
+    if block.phase is not None:
+        return block.phase
+    phases = {s.phase for s in inlets}
+    if len(phases) > 1:
+        raise CalculationError(
+            block.name,
+            "outlet phase 'as inlet' but the inlets are "
+            f"{' and '.join(sorted(phases))}; choose the outlet phase",
+        )
+    return phases.pop()
+
+
+def compute_mixer(
+    block: CompiledMixer, inlets: list[StreamState], basis, strict: bool = True
+) -> BlockOutput:
+    """Sum the flows; outlet T from the inlets' total enthalpy.
+
+    When every inlet that carries flow is at one temperature and already in the
+    outlet phase, that temperature is the answer exactly and no root solve is needed.
+    """
+    phase = _outlet_phase(block, inlets)
+    flows = inlets[0].flows.copy()
+    for inlet in inlets[1:]:
+        flows += inlet.flows
+    P = block.P if block.P is not None else min(s.P for s in inlets)
+    carrying = [s for s in inlets if s.flows.sum() > 0.0] or inlets
+    temperatures = [s.T for s in carrying]
+    warnings: list[str] = []
+    if all(t == temperatures[0] for t in temperatures) and all(s.phase == phase for s in carrying):
+        T = temperatures[0]
+    else:
+        totals = np.array([s.flows.sum() for s in carrying])
+        guess = (
+            float(np.dot(totals, temperatures) / totals.sum())
+            if totals.sum() > 0
+            else (float(np.mean(temperatures)))
+        )
+        T = temperature_for_enthalpy(
+            block,
+            basis,
+            flows,
+            float(enthalpies(basis, inlets).sum()),
+            phase == "liquid",
+            guess,
+            strict,
+            warnings,
+        )
+    return BlockOutput({"out": StreamState(flows, T, P, phase)}, BlockResult(warnings=warnings))

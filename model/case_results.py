@@ -1,0 +1,74 @@
+"""Checking the optional ``results`` of a case file against the case it belongs to.
+
+The results are the last solution (``FlowsheetSolution.to_dict``). Before rebuilding
+them, the parts that the window and the reports read directly are checked: the
+component list must be the case's, every stream and block named must exist, and each
+stream state must hold one finite flow per component, a temperature and pressure above
+zero and a known phase. Anything else that ``FlowsheetSolution.from_dict`` refuses is
+reported at ``results``.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from model.block_kinds import PHASES
+from model.case_schema import Problems, join
+from model.flowsheet import Flowsheet
+
+
+def read_results(problems: Problems, value: Any, flowsheet: Flowsheet) -> Any:
+    """The stored solution, or None after recording what is wrong with it."""
+    from model.solution import FlowsheetSolution
+
+    data = problems.object(
+        "results", value, required=("status", "converged", "message", "component_names")
+    )
+    if data is None:
+        return None
+    count = len(problems)
+    names = flowsheet.component_names()
+    if "component_names" in data and data["component_names"] != names:
+        problems.add(
+            "results.component_names",
+            data.get("component_names"),
+            "the case's components in the case's order: " + ", ".join(names),
+        )
+    streams = problems.object("results.streams", data.get("streams", {}))
+    for name, state in (streams or {}).items():
+        path = join("results.streams", name)
+        if name not in flowsheet.streams:
+            problems.add(path, name, "the name of a stream of this case")
+            continue
+        _check_state(problems, path, state, len(names))
+    blocks = problems.object("results.blocks", data.get("blocks", {}))
+    for name in blocks or {}:
+        if name not in flowsheet.blocks:
+            problems.add(join("results.blocks", name), name, "the name of a block of this case")
+    if len(problems) != count:
+        return None
+    try:
+        return FlowsheetSolution.from_dict(data, flowsheet)
+    except Exception as error:  # any other unreadable part is a problem of the file
+        problems.add_error("results", error, "(results)")
+        return None
+
+
+def _check_state(problems: Problems, path: str, state: Any, component_count: int) -> None:
+    data = problems.object(path, state, required=("flows_mol_s", "T_K", "P_Pa", "phase"))
+    if data is None:
+        return
+    flows = problems.array(join(path, "flows_mol_s"), data.get("flows_mol_s", []))
+    if flows is not None and len(flows) != component_count:
+        problems.add(
+            join(path, "flows_mol_s"), flows, f"one flow per component ({component_count})"
+        )
+    elif flows is not None:
+        for index, flow in enumerate(flows):
+            problems.number(join(join(path, "flows_mol_s"), index), flow, minimum=0.0)
+    if "T_K" in data:
+        problems.number(join(path, "T_K"), data["T_K"], positive=True)
+    if "P_Pa" in data:
+        problems.number(join(path, "P_Pa"), data["P_Pa"], positive=True)
+    if "phase" in data:
+        problems.choice(join(path, "phase"), data["phase"], PHASES)

@@ -1,0 +1,146 @@
+"""The headless commands ``loopwright solve`` and ``loopwright export``.
+
+``solve CASE`` loads a case file, solves it and prints the convergence summary, the
+stream table and block duties in the chosen unit system, the balance closures and the
+cautions (or, with ``--json``, one JSON object). ``export CASE --csv FILE`` solves the
+case and writes its stream table as CSV. Exit status: 0 converged, 1 not converged,
+2 bad input or a bad file (the message goes to standard error).
+
+Examples
+--------
+>>> main(["solve", "examples/ammonia_synthesis_loop.loop.json", "--json"])  # doctest: +SKIP
+0
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import sys
+from typing import Any
+
+from convergence import METHODS
+from model.case import Case
+from model.case_file import load_case
+from model.errors import LoopwrightError
+from model.report import solution_report, solution_summary, stream_table, stream_table_csv
+from units_of_measure import UNIT_SYSTEMS
+
+EXIT_CONVERGED = 0
+EXIT_NOT_CONVERGED = 1
+EXIT_BAD_INPUT = 2
+#: Solve states that mean the input cannot be solved as it stands.
+BAD_INPUT_STATES = ("needs input",)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of both sub-commands."""
+    parser = argparse.ArgumentParser(
+        prog="loopwright",
+        description="Solve a Loopwright case without the window, or export its stream table.",
+    )
+    commands = parser.add_subparsers(dest="command", required=True)
+    solve = commands.add_parser("solve", help="solve a case and print the results")
+    _add_common(solve)
+    solve.add_argument("--method", choices=list(METHODS), help="convergence method")
+    solve.add_argument("--q-min", type=float, dest="q_min", help="lower bound of Wegstein's q")
+    solve.add_argument("--q-max", type=float, dest="q_max", help="upper bound of Wegstein's q")
+    solve.add_argument("--json", action="store_true", help="print one JSON object")
+    export = commands.add_parser("export", help="solve a case and write its stream table")
+    _add_common(export)
+    export.add_argument("--csv", required=True, metavar="FILE", help="CSV file to write")
+    return parser
+
+
+def _add_common(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("case", metavar="CASE", help="case file (*.loop.json)")
+    parser.add_argument(
+        "--units",
+        choices=list(UNIT_SYSTEMS),
+        metavar="SYSTEM",
+        help="unit system of the output: "
+        + ", ".join(repr(name) for name in UNIT_SYSTEMS)
+        + " (default: the case's own)",
+    )
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run ``solve`` or ``export`` (``argv[0]``, default ``sys.argv[1:]``); return the status."""
+    parser = build_parser()
+    try:
+        args = parser.parse_args(sys.argv[1:] if argv is None else argv)
+    except SystemExit as stop:  # argparse has printed the usage and the problem
+        return EXIT_BAD_INPUT if stop.code not in (0, None) else 0
+    try:
+        case = _prepared_case(args)
+        solution = case.solve()
+    except (LoopwrightError, ValueError) as error:
+        print(f"loopwright {args.command}: {error}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    if solution.status in BAD_INPUT_STATES:
+        _print_refusal(args.command, solution)
+        return EXIT_BAD_INPUT
+    if args.command == "solve":
+        try:
+            _print_solution(case, args.json)
+        except BrokenPipeError:  # the reader (e.g. ``head``) stopped early: not an error
+            sys.stdout = open(os.devnull, "w")  # noqa: SIM115 - Python flushes it at exit
+    else:
+        try:
+            _write_csv(case, args.csv)
+        except OSError as error:
+            print(f"loopwright export: {args.csv}: {error.strerror or error}", file=sys.stderr)
+            return EXIT_BAD_INPUT
+    return EXIT_CONVERGED if solution.converged else EXIT_NOT_CONVERGED
+
+
+def _prepared_case(args: argparse.Namespace) -> Case:
+    """Load the case and apply the command line's choices to it."""
+    case = load_case(args.case)
+    if args.units is not None:
+        case.unit_system = args.units
+    if getattr(args, "method", None) is not None:
+        case.method = args.method
+    bounds = {
+        name: value
+        for name in ("q_min", "q_max")
+        if (value := getattr(args, name, None)) is not None
+    }
+    if bounds:
+        case.settings.update(**bounds)
+    return case
+
+
+def _print_refusal(command: str, solution: Any) -> None:
+    print(f"loopwright {command}: {solution.status}: {solution.message}", file=sys.stderr)
+    for issue in solution.issues:
+        print(f"  {issue.severity}: {issue.message}", file=sys.stderr)
+
+
+def _print_solution(case: Case, as_json: bool) -> None:
+    solution = case.solution
+    if as_json:
+        print(json.dumps(solution_summary(solution), indent=2, allow_nan=True))
+        return
+    if case.title:
+        print(case.title)
+        print()
+    streams = list(case.flowsheet.streams)
+    blocks = list(case.flowsheet.blocks)
+    sys.stdout.write(solution_report(solution, case.unit_system, streams, blocks))
+
+
+def _write_csv(case: Case, path: str) -> None:
+    solution = case.solution
+    table = stream_table(solution, case.unit_system, list(case.flowsheet.streams))
+    text = stream_table_csv(table)
+    if not solution.converged:
+        first, rest = text.split("\n", 1)
+        text = f"{first}\n# {solution.status}: {solution.message}\n{rest}"
+    with open(path, "w", encoding="utf-8", newline="") as handle:
+        handle.write(text)
+
+
+if __name__ == "__main__":
+    sys.exit(main(sys.argv[1:]))

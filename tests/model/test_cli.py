@@ -1,0 +1,199 @@
+"""The headless commands ``loopwright solve`` and ``loopwright export``."""
+
+from __future__ import annotations
+
+import csv
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from model.case_file import load_case
+from model.cautions import CAUTIONS
+from model.cli import main
+from units_of_measure import from_internal
+
+EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
+AMMONIA = EXAMPLES / "ammonia_synthesis_loop.loop.json"
+HYDRATION = EXAMPLES / "ethylene_hydration_two_recycles.loop.json"
+
+
+def _run(capsys, *argv: str) -> tuple[int, str, str]:
+    status = main(list(argv))
+    out, err = capsys.readouterr()
+    return status, out, err
+
+
+def _modified_copy(tmp_path: Path, source: Path, change) -> Path:
+    data = json.loads(source.read_text("utf-8"))
+    change(data)
+    path = tmp_path / source.name
+    path.write_text(json.dumps(data), encoding="utf-8")
+    return path
+
+
+def test_solve_prints_summary_table_duties_closures_and_cautions(capsys) -> None:
+    status, out, err = _run(capsys, "solve", str(AMMONIA), "--units", "US customary")
+    assert status == 0 and err == ""
+    for caution in CAUTIONS:
+        assert caution in out
+    assert "Tear Recycle gas: 6 iterations, final residual" in out
+    assert "Stream table (US customary):" in out
+    assert "Temperature [degF]" in out and "Molar flow argon [lbmol/h]" in out
+    assert "Mole fraction argon" in out and "Enthalpy flow [Btu/h]" in out
+    assert "Loop cooler: duty -" in out and "Btu/h" in out
+    assert "balances close" in out
+    # The make-up gas at 25 degC is 77 degF (T(degF) = 1.8 T(degC) + 32, NIST SP 811).
+    temperature_row = next(line for line in out.splitlines() if line.startswith("Temperature"))
+    assert temperature_row.split()[2] == "77"
+
+
+def test_solve_json_holds_the_agreed_keys_and_the_solved_numbers(capsys) -> None:
+    status, out, _ = _run(capsys, "solve", str(AMMONIA), "--json")
+    assert status == 0
+    summary = json.loads(out)
+    assert summary["converged"] is True and summary["iterations"] == 6
+    assert summary["passes"] >= summary["iterations"]
+    assert list(summary["tears"]) == ["Recycle gas"]
+    assert len(summary["tears"]["Recycle gas"]) == summary["iterations"]
+    assert summary["tears"]["Recycle gas"][-1] <= 1e-8
+    case = load_case(AMMONIA)
+    solution = case.solve()
+    for name, state in solution.streams.items():
+        entry = summary["streams"][name]
+        assert entry["molar_flows_mol_s"] == dict(
+            zip(solution.component_names, state.flows.tolist(), strict=True)
+        )
+        assert (entry["T_K"], entry["P_Pa"], entry["phase"]) == (state.T, state.P, state.phase)
+        assert entry["enthalpy_flow_W"] == state.enthalpy_flow(solution.basis)
+    assert set(summary["blocks"]) == {"Converter", "Loop cooler", "Ammonia separator"}
+    assert summary["blocks"]["Loop cooler"]["duty_W"] == solution.blocks["Loop cooler"].duty_W
+    assert set(summary["closure"]) == {"mass", "elements", "energy"}
+    assert max(summary["closure"].values()) <= 1e-7
+
+
+def test_method_and_q_bounds_from_the_command_line(capsys) -> None:
+    _, out, _ = _run(capsys, "solve", str(AMMONIA), "--json", "--q-min", "-5")
+    slow = json.loads(out)
+    assert slow["converged"] and slow["iterations"] > 10 * 6  # the argon loop crawls
+    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--json", "--method", "direct")
+    direct = json.loads(out)
+    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--json")
+    wegstein = json.loads(out)
+    assert direct["converged"] and direct["iterations"] > wegstein["iterations"]
+
+
+def test_not_converged_exits_with_1(capsys, tmp_path: Path) -> None:
+    path = _modified_copy(
+        tmp_path, AMMONIA, lambda d: d["solver_settings"].update(q_min=-5.0, max_iterations=20)
+    )
+    status, out, _ = _run(capsys, "solve", str(path), "--json")
+    assert status == 1
+    assert json.loads(out)["converged"] is False
+
+
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ["solve", "missing.loop.json"],
+        ["solve", str(AMMONIA), "--units", "Imperial"],
+        ["solve", str(AMMONIA), "--method", "newton"],
+        ["solve", str(AMMONIA), "--q-min", "1"],
+        ["solve", str(AMMONIA), "--q-max", "nan"],
+        ["solve", str(AMMONIA), "--q-min", "lots"],
+        ["export", str(AMMONIA)],
+        ["render", str(AMMONIA)],
+    ],
+)
+def test_bad_input_exits_with_2_and_a_message_on_stderr(capsys, argv) -> None:
+    status, out, err = _run(capsys, *argv)
+    assert status == 2 and out == ""
+    assert err.strip() and "Traceback" not in err
+
+
+def test_bad_file_lists_its_problems_on_stderr(capsys, tmp_path: Path) -> None:
+    def change(data):
+        data["blocks"][2]["specs"]["reactions"][0]["conversion"] = 1.7
+        data["streams"][0]["to"]["block"] = "Nowhere"
+
+    path = _modified_copy(tmp_path, AMMONIA, change)
+    status, out, err = _run(capsys, "solve", str(path))
+    assert status == 2 and out == ""
+    assert "blocks[2].specs.reactions[0].conversion: 1.7 is not allowed" in err
+    assert "streams[0].to.block: 'Nowhere'" in err
+
+
+def test_case_needing_input_exits_with_2(capsys, tmp_path: Path) -> None:
+    path = _modified_copy(tmp_path, AMMONIA, lambda d: d["blocks"][2]["specs"].pop("T"))
+    status, out, err = _run(capsys, "solve", str(path))
+    assert status == 2 and out == ""
+    assert "needs input" in err and "Converter" in err
+
+
+def test_export_writes_the_stream_table_as_csv_with_a_caution_line(capsys, tmp_path) -> None:
+    target = tmp_path / "table.csv"
+    status, out, err = _run(capsys, "export", str(HYDRATION), "--csv", str(target), "--units", "SI")
+    assert status == 0 and err == ""
+    lines = target.read_text("utf-8").splitlines()
+    assert lines[0].startswith("# ") and all(c in lines[0] for c in CAUTIONS)
+    rows = list(csv.reader(lines[1:]))
+    case = load_case(HYDRATION)
+    solution = case.solve()
+    assert rows[0] == ["Quantity", "Unit", *case.flowsheet.streams]
+    by_label = {row[0]: row for row in rows[1:]}
+    assert by_label["Temperature"][1] == "K"
+    assert float(by_label["Temperature"][2 + 5]) == pytest.approx(
+        solution.streams["Reactor feed"].T, rel=1e-5
+    )  # 5 significant digits
+    assert by_label["Molar flow ethanol"][1] == "mol/s"
+    assert by_label["Phase"][2:] == [s.phase for s in solution.streams.values()]
+    assert len(rows) == 1 + 5 + 2 * 3 + 1  # phase, T, P, total, mass; per component x2; H
+
+
+def test_export_in_metric_converts_units(capsys, tmp_path) -> None:
+    target = tmp_path / "metric.csv"
+    assert _run(capsys, "export", str(AMMONIA), "--csv", str(target))[0] == 0
+    rows = {row[0]: row for row in csv.reader(target.read_text("utf-8").splitlines()[1:])}
+    solution = load_case(AMMONIA).solve()
+    assert rows["Pressure"][1] == "bar"
+    # 150 barg = 151.01325 bar absolute (gauge + 1.01325 bar, NIST SP 811 atm).
+    assert rows["Pressure"][2] == "151.01"
+    purge = list(load_case(AMMONIA).flowsheet.streams).index("Purge")
+    assert float(rows["Enthalpy flow"][2 + purge]) == pytest.approx(
+        from_internal(solution.streams["Purge"].enthalpy_flow(solution.basis), "power", "kW"),
+        rel=1e-4,
+    )
+
+
+def test_export_to_an_unwritable_place_exits_with_2(capsys, tmp_path) -> None:
+    status, _, err = _run(
+        capsys, "export", str(AMMONIA), "--csv", str(tmp_path / "no folder" / "t.csv")
+    )
+    assert status == 2 and "No such file" in err
+
+
+def test_launcher_dispatches_headless_commands_without_qt() -> None:
+    code = (
+        "import sys; from gui.launcher import main; status = main(['solve', sys.argv[1], "
+        "'--json']); assert 'PySide6' not in sys.modules; sys.exit(status)"
+    )
+    done = subprocess.run(
+        [sys.executable, "-c", code, str(HYDRATION)], capture_output=True, text=True, timeout=120
+    )
+    assert done.returncode == 0, done.stderr
+    assert json.loads(done.stdout)["converged"] is True
+
+
+def test_export_of_an_unconverged_case_says_so_and_exits_with_1(capsys, tmp_path) -> None:
+    path = _modified_copy(
+        tmp_path, AMMONIA, lambda d: d["solver_settings"].update(q_min=-5.0, max_iterations=20)
+    )
+    target = tmp_path / "table.csv"
+    status, _, _ = _run(capsys, "export", str(path), "--csv", str(target))
+    assert status == 1
+    lines = target.read_text("utf-8").splitlines()
+    assert lines[0].startswith("# Results are preliminary")
+    assert lines[1].startswith("# not converged: ")
+    assert lines[2].startswith("Quantity,Unit,")

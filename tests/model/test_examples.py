@@ -1,0 +1,151 @@
+"""Every example case in ``examples/`` opens, converges and closes its balances.
+
+The expected flows are hand balances over the whole plant (steady state: what enters
+leaves or reacts), worked out in the comments; they do not depend on the solver.
+"""
+
+from __future__ import annotations
+
+import importlib.util
+from pathlib import Path
+
+import pytest
+
+from convergence import SolverSettings
+from model.case_file import case_to_json, load_case
+
+EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
+EXAMPLE_FILES = sorted(EXAMPLES.glob("*.loop.json"))
+KMOL_H = 1000.0 / 3600.0  # mol/s in 1 kmol/h (exact)
+
+
+def _build_module():
+    spec = importlib.util.spec_from_file_location("build_examples", EXAMPLES / "build_examples.py")
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+def _solved(path: Path, default_settings: bool = False):
+    case = load_case(path)
+    if default_settings:
+        case.settings = SolverSettings()
+    return case, case.solve()
+
+
+def test_there_are_at_least_three_examples_each_labelled_invented() -> None:
+    assert len(EXAMPLE_FILES) >= 3
+    readme = (EXAMPLES / "README.md").read_text("utf-8")
+    for path in EXAMPLE_FILES:
+        case = load_case(path)
+        assert "(invented)" in case.title and case.notes.startswith("Invented scenario")
+        assert path.name in readme
+    assert readme.count("*Invented.*") >= len(EXAMPLE_FILES)
+
+
+def test_committed_files_are_what_the_build_script_writes(tmp_path: Path) -> None:
+    written = _build_module().build(tmp_path)
+    assert sorted(p.name for p in written) == [p.name for p in EXAMPLE_FILES]
+    for path in written:
+        assert path.read_text("utf-8") == (EXAMPLES / path.name).read_text("utf-8"), path.name
+
+
+@pytest.mark.parametrize("path", EXAMPLE_FILES, ids=lambda p: p.stem)
+def test_example_converges_with_default_settings(path: Path) -> None:
+    case, solution = _solved(path, default_settings=True)
+    assert solution.status == "solved", solution.message
+    assert (
+        solution.tear_streams and solution.convergence.iterations <= SolverSettings().max_iterations
+    )
+    assert solution.balance.mass_closure <= 10 * SolverSettings().tolerance
+
+
+@pytest.mark.parametrize("path", EXAMPLE_FILES, ids=lambda p: p.stem)
+def test_example_as_saved_converges_and_its_balances_close(path: Path) -> None:
+    case, solution = _solved(path)
+    assert solution.converged, solution.message
+    tolerance = case.settings.tolerance
+    closures = {
+        "mass": solution.balance.mass_closure,
+        "elements": solution.balance.element_closure,
+        "energy": solution.balance.energy_closure,
+    }
+    assert all(value <= 10 * tolerance for value in closures.values()), closures
+    assert solution.balance.closes
+
+
+@pytest.mark.parametrize("path", EXAMPLE_FILES, ids=lambda p: p.stem)
+def test_solving_a_reopened_example_gives_identical_numbers(path: Path, tmp_path: Path) -> None:
+    from model.case_file import save_case
+
+    case, solution = _solved(path)
+    copy_path = tmp_path / path.name
+    save_case(case, copy_path)
+    reopened = load_case(copy_path)
+    assert reopened.solution.to_dict() == solution.to_dict()  # the stored results
+    again = reopened.solve()
+    for name, state in solution.streams.items():  # bitwise equal, not approximately
+        other = again.streams[name]
+        assert other.flows.tobytes() == state.flows.tobytes(), name
+        assert (other.T, other.P, other.phase) == (state.T, state.P, state.phase), name
+    assert case_to_json(reopened) == case_to_json(case)
+
+
+def test_ammonia_loop_purges_exactly_the_argon_fed() -> None:
+    case, solution = _solved(EXAMPLES / "ammonia_synthesis_loop.loop.json")
+    streams, names = solution.streams, solution.component_names
+    argon = names.index("argon")
+    # Hand balance: argon leaves only with the purge, 2 % of the loop gas, so the loop gas
+    # carries 300 kmol/h x 0.005 / 0.02 = 75 kmol/h of argon and the purge 1.5 kmol/h.
+    assert streams["Loop gas"].flows[argon] == pytest.approx(75.0 * KMOL_H, rel=1e-9)
+    assert streams["Purge"].flows[argon] == pytest.approx(1.5 * KMOL_H, rel=1e-9)
+    # 25 % of the nitrogen entering the converter reacts (fixed conversion).
+    nitrogen = names.index("nitrogen")
+    fed = streams["Converter feed"].flows[nitrogen]
+    assert streams["Converter effluent"].flows[nitrogen] == pytest.approx(0.75 * fed, rel=1e-12)
+
+
+def test_ammonia_loop_at_default_q_bounds_is_slow_but_converges() -> None:
+    _, default = _solved(EXAMPLES / "ammonia_synthesis_loop.loop.json", default_settings=True)
+    _, tuned = _solved(EXAMPLES / "ammonia_synthesis_loop.loop.json")
+    diagnosis = default.convergence.diagnosis["Recycle gas"]
+    # Purging 2 % leaves 98 % of the argon in the loop each pass: slope 0.98 (hand value).
+    assert diagnosis.slope == pytest.approx(0.98, abs=0.005)
+    assert diagnosis.blocked_by_bounds and "q_min" in diagnosis.advice
+    assert default.convergence.iterations > 10 * tuned.convergence.iterations
+
+
+def test_shift_example_converts_three_quarters_of_the_carbon_monoxide() -> None:
+    case, solution = _solved(EXAMPLES / "shift_feed_effluent_exchanger.loop.json")
+    names, streams = solution.component_names, solution.streams
+    co, h2 = names.index("carbon monoxide"), names.index("hydrogen")
+    # Hand balance: 1000 kmol/h x 12 % CO = 120 kmol/h, 75 % shifted = 90 kmol/h extent.
+    assert streams["Product gas"].flows[co] == pytest.approx(30.0 * KMOL_H, rel=1e-12)
+    assert streams["Product gas"].flows[h2] == pytest.approx(540.0 * KMOL_H, rel=1e-12)
+    # The tear carries heat only: its flows equal the feed's, its temperature is recycled.
+    tear = solution.tear_streams[0]
+    assert tear == "Preheated gas"
+    assert streams[tear].flows.tobytes() == streams["Raw gas"].flows.tobytes()
+    assert streams[tear].T > streams["Raw gas"].T + 50.0
+    # Exchanger: the heat the cold side gains is the heat the hot side loses.
+    basis = solution.basis
+    gained = streams[tear].enthalpy_flow(basis) - streams["Raw gas"].enthalpy_flow(basis)
+    lost = streams["Exchanger hot side"].enthalpy_flow(basis) - streams[
+        "Cooled effluent"
+    ].enthalpy_flow(basis)
+    assert gained == pytest.approx(lost, rel=1e-9)
+    assert solution.blocks["Feed-effluent exchanger"].duty_W == pytest.approx(gained, rel=1e-9)
+
+
+def test_hydration_example_has_two_loops_through_one_tear() -> None:
+    case, solution = _solved(EXAMPLES / "ethylene_hydration_two_recycles.loop.json")
+    names, streams = solution.component_names, solution.streams
+    ethanol, water = names.index("ethanol"), names.index("water")
+    # Hand balance: ethylene leaves only by reaction, so all 100 kmol/h react; ethanol
+    # leaves only with the crude ethanol and water with it: 150 fed - 100 reacted = 50.
+    assert streams["Crude ethanol"].flows[ethanol] == pytest.approx(100.0 * KMOL_H, rel=1e-7)
+    assert streams["Crude ethanol"].flows[water] == pytest.approx(50.0 * KMOL_H, rel=1e-7)
+    # Both recycles (gas and water) pass through the reactor, so one tear breaks both.
+    assert len(solution.tear_streams) == 1
+    assert streams["Recycle gas"].total_molar_flow() > 5 * streams["Ethylene"].total_molar_flow()
+    assert streams["Recycle water"].flows[water] > 2 * streams["Make-up water"].flows[water]
