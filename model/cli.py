@@ -2,9 +2,13 @@
 
 ``solve CASE`` loads a case file, solves it and prints the convergence summary, the
 stream table and block duties in the chosen unit system, the balance closures and the
-cautions (or, with ``--json``, one JSON object). ``export CASE --csv FILE`` solves the
-case and writes its stream table as CSV. Exit status: 0 converged, 1 not converged,
-2 bad input or a bad file (the message goes to standard error).
+cautions (or, with ``--json``, one JSON object). With ``--second-opinion`` it then
+solves the flowsheet again with every stream at once (:mod:`model.second_opinion`) and
+prints the largest relative difference from the sequential answer (in JSON:
+``"second_opinion": {"agrees", "largest_relative_difference", "message"}``).
+``export CASE --csv FILE`` solves the case and writes its stream table as CSV. Exit
+status: 0 converged, 1 not converged, 2 bad input or a bad file (the message goes to
+standard error); the second opinion does not change it.
 
 Examples
 --------
@@ -16,6 +20,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import math
 import os
 import sys
 from typing import Any
@@ -25,6 +30,7 @@ from model.case import Case
 from model.case_file import load_case
 from model.errors import LoopwrightError
 from model.report import solution_report, solution_summary, stream_table, stream_table_csv
+from model.second_opinion import AGREEMENT_TOLERANCE, SecondOpinion, second_opinion
 from units_of_measure import UNIT_SYSTEMS
 
 EXIT_CONVERGED = 0
@@ -47,10 +53,35 @@ def build_parser() -> argparse.ArgumentParser:
     solve.add_argument("--q-min", type=float, dest="q_min", help="lower bound of Wegstein's q")
     solve.add_argument("--q-max", type=float, dest="q_max", help="upper bound of Wegstein's q")
     solve.add_argument("--json", action="store_true", help="print one JSON object")
+    solve.add_argument(
+        "--second-opinion",
+        action="store_true",
+        dest="second_opinion",
+        help="check the answer by solving every stream at once (scipy.optimize.root)",
+    )
+    solve.add_argument(
+        "--agreement-tolerance",
+        type=_positive_float,
+        dest="agreement_tolerance",
+        default=AGREEMENT_TOLERANCE,
+        metavar="TOL",
+        help=f"largest relative difference that agrees (default {AGREEMENT_TOLERANCE:g})",
+    )
     export = commands.add_parser("export", help="solve a case and write its stream table")
     _add_common(export)
     export.add_argument("--csv", required=True, metavar="FILE", help="CSV file to write")
     return parser
+
+
+def _positive_float(text: str) -> float:
+    """A finite number above zero (argparse type)."""
+    try:
+        value = float(text)
+    except ValueError:
+        value = math.nan
+    if not (math.isfinite(value) and value > 0.0):
+        raise argparse.ArgumentTypeError(f"{text!r} is not allowed; a finite number > 0")
+    return value
 
 
 def _add_common(parser: argparse.ArgumentParser) -> None:
@@ -82,8 +113,11 @@ def main(argv: list[str] | None = None) -> int:
         _print_refusal(args.command, solution)
         return EXIT_BAD_INPUT
     if args.command == "solve":
+        opinion = None
+        if args.second_opinion:
+            opinion = second_opinion(case.flowsheet, solution, args.agreement_tolerance)
         try:
-            _print_solution(case, args.json)
+            _print_solution(case, args.json, opinion)
         except BrokenPipeError:  # the reader (e.g. ``head``) stopped early: not an error
             sys.stdout = open(os.devnull, "w")  # noqa: SIM115 - Python flushes it at exit
     else:
@@ -118,10 +152,13 @@ def _print_refusal(command: str, solution: Any) -> None:
         print(f"  {issue.severity}: {issue.message}", file=sys.stderr)
 
 
-def _print_solution(case: Case, as_json: bool) -> None:
+def _print_solution(case: Case, as_json: bool, opinion: SecondOpinion | None = None) -> None:
     solution = case.solution
     if as_json:
-        print(json.dumps(solution_summary(solution), indent=2, allow_nan=True))
+        summary = solution_summary(solution)
+        if opinion is not None:
+            summary["second_opinion"] = second_opinion_summary(opinion)
+        print(json.dumps(summary, indent=2, allow_nan=True))
         return
     if case.title:
         print(case.title)
@@ -129,6 +166,38 @@ def _print_solution(case: Case, as_json: bool) -> None:
     streams = list(case.flowsheet.streams)
     blocks = list(case.flowsheet.blocks)
     sys.stdout.write(solution_report(solution, case.unit_system, streams, blocks))
+    if opinion is not None:
+        print()
+        print(second_opinion_line(opinion))
+
+
+def second_opinion_summary(opinion: SecondOpinion) -> dict[str, Any]:
+    """The JSON entry of ``--second-opinion``: agrees, largest relative difference, message."""
+    difference = opinion.largest_relative_difference
+    return {
+        "agrees": bool(opinion.agrees),
+        "largest_relative_difference": None if difference is None else float(difference),
+        "message": opinion.message,
+    }
+
+
+def second_opinion_line(opinion: SecondOpinion) -> str:
+    """One line for the text report, e.g. ``Second opinion: agrees: largest ...``."""
+    difference = opinion.largest_relative_difference
+    if not opinion.converged or difference is None:
+        return f"Second opinion: {opinion.message}"
+    line = (
+        f"Second opinion: {'agrees' if opinion.agrees else 'DOES NOT AGREE'}: largest "
+        f"relative difference {difference:.3g} at {opinion.worst} (tolerance "
+        f"{opinion.tolerance:g}); every stream at once by scipy.optimize.root "
+        f"'{opinion.method}', {opinion.evaluations} evaluations, {opinion.seconds:.3g} s"
+    )
+    if not opinion.agrees:
+        line += (
+            "; a tear converged to the solver tolerance can still be off by about "
+            "tolerance / (1 - loop gain): tighten the tolerance and solve again"
+        )
+    return line
 
 
 def _write_csv(case: Case, path: str) -> None:
