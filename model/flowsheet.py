@@ -84,12 +84,16 @@ class Flowsheet:
         self.components.insert(position, component)
         self.components_changed.emit()
 
+    def component_users(self, name: str) -> list[str]:
+        """Names of the blocks whose specs mention the component ``name``."""
+        return [b.name for b in self.blocks.values() if _mentions_component(b.specs, name)]
+
     def remove_component(self, name: str) -> int:
         """Remove a component not used by any spec; return its former index."""
         names = self.component_names()
         if name not in names:
             raise InputError("component", name, "one of the case's components: " + ", ".join(names))
-        users = [b.name for b in self.blocks.values() if _mentions_component(b.specs, name)]
+        users = self.component_users(name)
         if users:
             raise InputError(
                 "component",

@@ -1,0 +1,1 @@
+"""The diagram editor: scene mirroring the flowsheet, items, view, block shelf, editor."""

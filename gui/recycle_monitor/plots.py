@@ -1,0 +1,204 @@
+"""The recycle monitor's two plots: scaled residual per tear (log axis) and q per tear.
+
+Each tear's items are created once, on its first record, and then updated with
+``setData``; the plots never call ``processEvents``. Vertical markers show where the
+solver settings changed during the run.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+import pyqtgraph as pg
+from PySide6.QtCore import Qt
+from PySide6.QtGui import QColor
+
+#: One colour per tear, in order (colour-blind-safe palette, Okabe & Ito 2008).
+TEAR_COLOURS = ("#0072b2", "#d55e00", "#009e73", "#cc79a7", "#e69f00", "#56b4e9", "#000000")
+#: Residuals are drawn no lower than this (log axis; an exact zero has no logarithm).
+RESIDUAL_FLOOR = 1e-17
+AXIS_COLOUR = "#333333"
+LIMIT_COLOUR = "#7a7a7a"
+MARKER_COLOUR = "#8e44ad"
+
+
+def _styled_plot(title: str, left: str) -> pg.PlotWidget:
+    plot = pg.PlotWidget(background="w")
+    item = plot.getPlotItem()
+    item.setTitle(title, color=AXIS_COLOUR, size="10pt")
+    item.setLabel("left", left, color=AXIS_COLOUR)
+    item.setLabel("bottom", "iteration", color=AXIS_COLOUR)
+    item.showGrid(x=True, y=True, alpha=0.15)
+    for name in ("left", "bottom"):
+        axis = item.getAxis(name)
+        axis.setPen(pg.mkPen(AXIS_COLOUR))
+        axis.setTextPen(pg.mkPen(AXIS_COLOUR))
+    item.addLegend(
+        offset=(-10, 10), labelTextColor=AXIS_COLOUR, brush=pg.mkBrush(255, 255, 255, 200)
+    )
+    plot.setMenuEnabled(False)
+    return plot
+
+
+@dataclass
+class TearSeries:
+    """Data and plot items of one tear."""
+
+    colour: str
+    iterations: list[int] = field(default_factory=list)
+    residuals: list[float] = field(default_factory=list)
+    q_iterations: list[int] = field(default_factory=list)
+    q_median: list[float] = field(default_factory=list)
+    q_minimum: list[float] = field(default_factory=list)
+    q_maximum: list[float] = field(default_factory=list)
+    residual_curve: pg.PlotDataItem | None = None
+    q_curve: pg.PlotDataItem | None = None
+    q_low: pg.PlotDataItem | None = None
+    q_high: pg.PlotDataItem | None = None
+    q_band: pg.FillBetweenItem | None = None
+
+
+class ConvergencePlots:
+    """Residual and q plots of one run, tear by tear."""
+
+    def __init__(self) -> None:
+        self.residual_plot = _styled_plot("Largest scaled residual per tear", "residual")
+        self.residual_plot.getPlotItem().setLogMode(x=False, y=True)
+        self.q_plot = _styled_plot("Wegstein q per tear (median, min–max band)", "q")
+        self.series: dict[str, TearSeries] = {}
+        dashed = pg.mkPen(LIMIT_COLOUR, width=1.5, style=Qt.PenStyle.DashLine)
+        self.tolerance_line = pg.InfiniteLine(
+            angle=0, pen=dashed, label="tolerance", labelOpts=_label_options(above=True)
+        )
+        self.q_min_line = pg.InfiniteLine(
+            angle=0, pen=dashed, label="q_min", labelOpts=_label_options(above=False)
+        )
+        self.q_max_line = pg.InfiniteLine(
+            angle=0, pen=dashed, label="q_max", labelOpts=_label_options(above=True)
+        )
+        self.residual_plot.addItem(self.tolerance_line)
+        self.q_plot.addItem(self.q_min_line)
+        self.q_plot.addItem(self.q_max_line)
+        self.markers: dict[int, tuple[pg.InfiniteLine, pg.InfiniteLine]] = {}
+
+    # ---- limits -----------------------------------------------------------------
+    def set_tolerance(self, tolerance: float) -> None:
+        """Draw the tolerance (log axis: the line sits at log10 of it)."""
+        self.tolerance_line.setValue(math.log10(tolerance))
+        self.tolerance_line.label.setFormat(f"tolerance {tolerance:g}")
+
+    def set_q_bounds(self, q_min: float, q_max: float) -> None:
+        self.q_min_line.setValue(q_min)
+        self.q_max_line.setValue(q_max)
+        self.q_min_line.label.setFormat(f"q_min {q_min:g}")
+        self.q_max_line.label.setFormat(f"q_max {q_max:g}")
+
+    # ---- data -------------------------------------------------------------------
+    def clear(self) -> None:
+        """Forget every tear and marker (a new run begins)."""
+        for series in self.series.values():
+            for item in (series.residual_curve,):
+                self.residual_plot.removeItem(item)
+            for item in (series.q_band, series.q_curve, series.q_low, series.q_high):
+                self.q_plot.removeItem(item)
+        self.series.clear()
+        for residual_marker, q_marker in self.markers.values():
+            self.residual_plot.removeItem(residual_marker)
+            self.q_plot.removeItem(q_marker)
+        self.markers.clear()
+
+    def tear_series(self, tear: str) -> TearSeries:
+        """The tear's series, creating its curves on first sight."""
+        series = self.series.get(tear)
+        if series is not None:
+            return series
+        colour = TEAR_COLOURS[len(self.series) % len(TEAR_COLOURS)]
+        series = TearSeries(colour)
+        pen = pg.mkPen(colour, width=2)
+        series.residual_curve = self.residual_plot.plot(
+            [], [], pen=pen, name=tear, symbol="o", symbolSize=4, symbolBrush=colour, symbolPen=None
+        )
+        series.q_curve = self.q_plot.plot(
+            [], [], pen=pen, name=tear, symbol="o", symbolSize=4, symbolBrush=colour, symbolPen=None
+        )
+        band = QColor(colour)
+        band.setAlpha(60)
+        edge = pg.mkPen(band, width=1)
+        series.q_low = pg.PlotDataItem([], [], pen=edge)
+        series.q_high = pg.PlotDataItem([], [], pen=edge)
+        series.q_band = pg.FillBetweenItem(series.q_low, series.q_high, brush=pg.mkBrush(band))
+        series.q_band.setZValue(-10)
+        self.q_plot.addItem(series.q_low)
+        self.q_plot.addItem(series.q_high)
+        self.q_plot.addItem(series.q_band)
+        self.series[tear] = series
+        return series
+
+    def append(self, record) -> None:
+        """Add one IterationRecord's numbers (drawn on the next :meth:`redraw`)."""
+        for tear, residual in record.residuals.items():
+            series = self.tear_series(tear)
+            series.iterations.append(record.iteration)
+            series.residuals.append(
+                max(float(residual), RESIDUAL_FLOOR) if math.isfinite(residual) else math.nan
+            )
+            stats = record.q.get(tear) if record.q else None
+            if stats is not None:
+                series.q_iterations.append(record.iteration)
+                series.q_median.append(stats.median)
+                series.q_minimum.append(stats.minimum)
+                series.q_maximum.append(stats.maximum)
+
+    def redraw(self) -> None:
+        """Push the collected numbers into the existing curves."""
+        for series in self.series.values():
+            x = np.asarray(series.iterations, dtype=float)
+            series.residual_curve.setData(
+                x, np.asarray(series.residuals, dtype=float), connect="finite"
+            )
+            qx = np.asarray(series.q_iterations, dtype=float)
+            series.q_curve.setData(qx, np.asarray(series.q_median, dtype=float))
+            series.q_low.setData(qx, np.asarray(series.q_minimum, dtype=float))
+            series.q_high.setData(qx, np.asarray(series.q_maximum, dtype=float))
+
+    # ---- markers ----------------------------------------------------------------
+    def add_marker(self, iteration: int, text: str) -> bool:
+        """A vertical line on both plots where settings changed; False if one is there."""
+        if iteration in self.markers:
+            return False
+        pen = pg.mkPen(MARKER_COLOUR, width=1.5, style=Qt.PenStyle.DotLine)
+        lines = []
+        for plot in (self.residual_plot, self.q_plot):
+            line = pg.InfiniteLine(
+                pos=iteration, angle=90, pen=pen, label=text, labelOpts=_marker_label_options()
+            )
+            line.setToolTip(text)
+            plot.addItem(line, ignoreBounds=True)
+            lines.append(line)
+        self.markers[iteration] = (lines[0], lines[1])
+        return True
+
+
+def _label_options(above: bool) -> dict:
+    """A limit line's label at the right end, just above (or below) the line."""
+    anchor = (1.0, 1.0) if above else (1.0, 0.0)
+    return {
+        "position": 0.98,
+        "color": LIMIT_COLOUR,
+        "anchors": [anchor, anchor],
+        "fill": pg.mkBrush(255, 255, 255, 170),
+        "movable": False,
+    }
+
+
+def _marker_label_options() -> dict:
+    """A settings marker's label near the bottom, to the right of the line."""
+    return {
+        "position": 0.04,
+        "color": MARKER_COLOUR,
+        "anchors": [(0.0, 1.0), (0.0, 1.0)],
+        "fill": pg.mkBrush(255, 255, 255, 190),
+        "movable": False,
+    }

@@ -1,0 +1,272 @@
+"""The stream table: every stream of a solution as a column, in the chosen unit system.
+
+Rows: phase, temperature, pressure, total molar flow, mass flow, enthalpy flow, then
+each component's molar flow and mole fraction. :class:`StreamTableModel` is a
+``QAbstractTableModel`` adapter: the display role gives formatted text in display units,
+``VALUE_ROLE`` the number in display units and ``INTERNAL_ROLE`` the model's own number
+(mol/s, K, Pa, W). Copy gives tab-separated text; CSV export starts with the cautions.
+"""
+
+from __future__ import annotations
+
+import csv
+import re
+from dataclasses import dataclass
+from typing import Any
+
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, Signal
+from PySide6.QtGui import QBrush, QColor, QFont, QGuiApplication, QKeySequence, QShortcut
+from PySide6.QtWidgets import (
+    QFileDialog,
+    QHBoxLayout,
+    QLabel,
+    QPushButton,
+    QTableView,
+    QVBoxLayout,
+    QWidget,
+)
+
+from model.cautions import CAUTIONS
+from units_of_measure import UNIT_SYSTEMS, format_value, from_internal
+
+VALUE_ROLE = Qt.ItemDataRole.UserRole
+INTERNAL_ROLE = Qt.ItemDataRole.UserRole + 1
+TEAR_COLOUR = QColor("#00796b")
+
+
+@dataclass(frozen=True)
+class TableRow:
+    """One row: its label, display unit, kind and a value per stream.
+
+    ``internal`` holds the model's numbers (or text, for the phase); ``shown`` the same
+    in the display unit. A heading row has no values.
+    """
+
+    label: str
+    unit: str = ""
+    kind: str | None = None
+    internal: tuple[Any, ...] = ()
+    shown: tuple[Any, ...] = ()
+
+    @property
+    def title(self) -> str:
+        return f"{self.label} [{self.unit}]" if self.unit and self.unit != "1" else self.label
+
+
+def _natural_key(name: str) -> list[Any]:
+    return [int(part) if part.isdigit() else part for part in re.split(r"(\d+)", name)]
+
+
+def stream_names(solution: Any) -> list[str]:
+    """The solution's streams in natural order (S2 before S10)."""
+    return sorted(solution.streams, key=_natural_key) if solution is not None else []
+
+
+def build_rows(solution: Any, unit_system: str, names: list[str] | None = None) -> list[TableRow]:
+    """The stream table's rows for ``names`` (default: every stream of the solution)."""
+    if solution is None:
+        return []
+    names = stream_names(solution) if names is None else names
+    system = UNIT_SYSTEMS[unit_system]
+    states = [solution.streams[name] for name in names]
+    basis = solution.basis
+
+    def row(label: str, kind: str | None, values: list[Any]) -> TableRow:
+        if kind is None:
+            return TableRow(label, "", None, tuple(values), tuple(values))
+        unit = system.unit_for(kind)
+        shown = tuple(from_internal(v, kind, unit) for v in values)
+        return TableRow(label, unit, kind, tuple(float(v) for v in values), shown)
+
+    rows = [
+        row("Phase", None, [s.phase for s in states]),
+        row("Temperature", "temperature", [s.T for s in states]),
+        row("Pressure", "pressure", [s.P for s in states]),
+        row("Total molar flow", "molar_flow", [s.total_molar_flow() for s in states]),
+        row("Mass flow", "mass_flow", [s.mass_flow(basis) for s in states]),
+        row("Enthalpy flow", "power", [s.enthalpy_flow(basis) for s in states]),
+        TableRow(f"Component molar flows [{system.unit_for('molar_flow')}]"),
+    ]
+    components = list(solution.component_names)
+    fractions = [s.mole_fractions() for s in states]
+    for index, name in enumerate(components):
+        rows.append(row(f"  {name}", "molar_flow", [s.flows[index] for s in states]))
+    rows.append(TableRow("Mole fractions"))
+    for index, name in enumerate(components):
+        rows.append(row(f"  {name}", "fraction", [f[index] for f in fractions]))
+    return rows
+
+
+def shown_text(value: Any) -> str:
+    """A cell's display text: numbers with 5 significant digits, words as they are."""
+    if isinstance(value, str):
+        return value
+    return format_value(value)
+
+
+class StreamTableModel(QAbstractTableModel):
+    """Adapter of a solution's streams (columns) and quantities (rows)."""
+
+    def __init__(self, parent=None) -> None:
+        super().__init__(parent)
+        self.names: list[str] = []
+        self.rows: list[TableRow] = []
+        self.tears: set[str] = set()
+
+    def set_content(self, names: list[str], rows: list[TableRow], tears: set[str]) -> None:
+        self.beginResetModel()
+        self.names, self.rows, self.tears = list(names), list(rows), set(tears)
+        self.endResetModel()
+
+    def rowCount(self, parent: QModelIndex = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self.rows)
+
+    def columnCount(self, parent: QModelIndex = QModelIndex()) -> int:  # noqa: B008
+        return 0 if parent.isValid() else len(self.names)
+
+    def data(self, index: QModelIndex, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if not index.isValid():
+            return None
+        row = self.rows[index.row()]
+        if not row.shown:
+            return None
+        if role == Qt.ItemDataRole.DisplayRole:
+            return shown_text(row.shown[index.column()])
+        if role == VALUE_ROLE:
+            return row.shown[index.column()]
+        if role == INTERNAL_ROLE:
+            return row.internal[index.column()]
+        if role == Qt.ItemDataRole.TextAlignmentRole and row.kind is not None:
+            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        return None
+
+    def headerData(
+        self, section: int, orientation: Qt.Orientation, role: int = Qt.ItemDataRole.DisplayRole
+    ) -> Any:
+        horizontal = orientation == Qt.Orientation.Horizontal
+        if role == Qt.ItemDataRole.DisplayRole:
+            if horizontal:
+                name = self.names[section]
+                return f"{name} (tear)" if name in self.tears else name
+            return self.rows[section].title
+        if role == Qt.ItemDataRole.FontRole and not horizontal and not self.rows[section].shown:
+            font = QFont()
+            font.setBold(True)
+            return font
+        if role == Qt.ItemDataRole.ForegroundRole and horizontal:
+            return QBrush(TEAR_COLOUR) if self.names[section] in self.tears else None
+        if role == Qt.ItemDataRole.ToolTipRole and horizontal:
+            name = self.names[section]
+            return f"{name}: tear stream" if name in self.tears else name
+        return None
+
+    def table_lines(self) -> list[list[str]]:
+        """Header line and one line per row, as display text (for copy and CSV)."""
+        lines = [["", *self.names]]
+        for row in self.rows:
+            values = [shown_text(v) for v in row.shown] if row.shown else [""] * len(self.names)
+            lines.append([row.title.strip(), *values])
+        return lines
+
+
+class StreamTable(QWidget):
+    """Stream table dock content: the table, its closure line, copy and CSV export."""
+
+    stream_activated = Signal(str)
+
+    def __init__(self, parent: QWidget | None = None) -> None:
+        super().__init__(parent)
+        self.model = StreamTableModel(self)
+        self.view = QTableView()
+        self.view.setModel(self.model)
+        self.view.setAlternatingRowColors(True)
+        self.view.horizontalHeader().setDefaultSectionSize(90)
+        self.view.verticalHeader().setDefaultSectionSize(22)
+        self.status_label = QLabel("Not solved yet.")
+        self.status_label.setWordWrap(True)
+        self.status_label.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        self.copy_button = QPushButton("Copy")
+        self.copy_button.setToolTip("Copy the whole table as tab-separated text")
+        self.export_button = QPushButton("Export CSV…")
+        buttons = QHBoxLayout()
+        buttons.addWidget(self.status_label, 1)
+        buttons.addWidget(self.copy_button)
+        buttons.addWidget(self.export_button)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(2, 2, 2, 2)
+        layout.addLayout(buttons)
+        layout.addWidget(self.view, 1)
+        self._solution: Any = None
+        self._unit_system = "Metric"
+        self.copy_button.clicked.connect(self.copy_to_clipboard)
+        self.export_button.clicked.connect(self._ask_export)
+        self.view.horizontalHeader().sectionDoubleClicked.connect(self._activate_column)
+        self.view.doubleClicked.connect(lambda index: self._activate_column(index.column()))
+        shortcut = QShortcut(QKeySequence.StandardKey.Copy, self.view)
+        shortcut.setContext(Qt.ShortcutContext.WidgetWithChildrenShortcut)
+        shortcut.activated.connect(self.copy_to_clipboard)
+
+    def set_solution(self, solution: Any, unit_system: str) -> None:
+        """Show ``solution``'s streams (None empties the table) in ``unit_system``."""
+        self._solution, self._unit_system = solution, unit_system
+        names = stream_names(solution)
+        tears = set(getattr(solution, "tear_streams", []) or [])
+        self.model.set_content(names, build_rows(solution, unit_system, names), tears)
+        self.view.resizeColumnsToContents()
+        self.status_label.setText(self._status_text())
+        balance = getattr(solution, "balance", None)
+        self.status_label.setToolTip("\n".join(balance.lines()) if balance is not None else "")
+
+    def _status_text(self) -> str:
+        solution = self._solution
+        if solution is None:
+            return "Not solved yet."
+        text = f"{solution.status.capitalize()} · {self._unit_system} units"
+        balance = getattr(solution, "balance", None)
+        if balance is not None:
+            verdict = (
+                "balances close"
+                if balance.closes
+                else ("balances do not close: " + ", ".join(balance.failing))
+            )
+            text += (
+                f" · closure: mass {balance.mass_closure:.1e}, elements "
+                f"{balance.element_closure:.1e}, energy {balance.energy_closure:.1e} "
+                f"({verdict})"
+            )
+        return text
+
+    def copy_to_clipboard(self) -> str:
+        """Put the whole table on the clipboard as tab-separated text; return the text."""
+        text = "\n".join("\t".join(line) for line in self.model.table_lines())
+        QGuiApplication.clipboard().setText(text)
+        return text
+
+    def export_csv(self, path: str) -> None:
+        """Write the table to ``path``; the first line is ``"# "`` and the cautions."""
+        with open(path, "w", newline="", encoding="utf-8") as handle:
+            handle.write("# " + " ".join(CAUTIONS) + "\n")
+            handle.write(f"# units: {self._unit_system}\n")
+            writer = csv.writer(handle)
+            writer.writerow(["", *self.model.names])
+            for row in self.model.rows:
+                if not row.shown:
+                    writer.writerow([row.title.strip()])
+                    continue
+                writer.writerow(
+                    [
+                        row.title.strip(),
+                        *(v if isinstance(v, str) else f"{v:.10g}" for v in row.shown),
+                    ]
+                )
+
+    def _ask_export(self) -> None:
+        path, _ = QFileDialog.getSaveFileName(
+            self, "Export stream table", "streams.csv", "CSV files (*.csv)"
+        )
+        if path:
+            self.export_csv(path)
+
+    def _activate_column(self, column: int) -> None:
+        if 0 <= column < len(self.model.names):
+            self.stream_activated.emit(self.model.names[column])

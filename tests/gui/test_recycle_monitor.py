@@ -1,0 +1,156 @@
+"""Recycle monitor: curves made once, log residuals, markers, diagnosis, live controls."""
+
+import os
+
+os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+
+import math  # noqa: E402
+
+import numpy as np  # noqa: E402
+import pytest  # noqa: E402
+from PySide6.QtCore import Qt  # noqa: E402
+
+from convergence import (  # noqa: E402
+    FixedPointProblem,
+    IterationRecord,
+    QStats,
+    SolverSettings,
+    solve_fixed_point,
+)
+from gui.recycle_monitor import RecycleMonitor  # noqa: E402
+
+pytestmark = pytest.mark.gui
+
+
+def record(iteration, settings, residuals, q=None, slopes=None):
+    """An IterationRecord as the solver makes it (real class, chosen numbers)."""
+    snapshot = settings.snapshot()
+    return IterationRecord(
+        iteration=iteration,
+        evaluations=iteration,
+        residuals=residuals,
+        q=q or dict.fromkeys(residuals),
+        settings_version=snapshot.version,
+        settings=snapshot,
+        slopes=slopes or {},
+    )
+
+
+@pytest.fixture
+def monitor(qtbot):
+    widget = RecycleMonitor()
+    qtbot.addWidget(widget)
+    widget.resize(1100, 360)
+    widget.show()
+    return widget
+
+
+def type_into(qtbot, line_edit, text):
+    line_edit.setFocus()
+    line_edit.selectAll()
+    qtbot.keyClicks(line_edit, text)
+    qtbot.keyClick(line_edit, Qt.Key.Key_Return)
+
+
+def test_curves_are_created_once_and_updated(qtbot, monitor):
+    settings = SolverSettings()
+    monitor.bind_settings(settings)
+    monitor.begin_run()
+    monitor.add_record(record(1, settings, {"S5": 1.0, "S9": 0.5}))
+    monitor.redraw()
+    curves = {tear: s.residual_curve for tear, s in monitor.plots.series.items()}
+    q_curves = {tear: s.q_curve for tear, s in monitor.plots.series.items()}
+    stats = QStats(-3.0, -2.0, -1.0, 0, 0, 4)
+    for iteration in range(2, 8):
+        monitor.add_record(
+            record(
+                iteration,
+                settings,
+                {"S5": 10.0**-iteration, "S9": 0.0},
+                q={"S5": stats, "S9": None},
+            )
+        )
+    qtbot.waitUntil(lambda: len(monitor.plots.series["S5"].residual_curve.xData) == 7)
+    assert {t: s.residual_curve for t, s in monitor.plots.series.items()} == curves
+    assert all(monitor.plots.series[t].residual_curve is curves[t] for t in curves)
+    assert all(monitor.plots.series[t].q_curve is q_curves[t] for t in q_curves)
+    residual = monitor.plots.series["S5"].residual_curve
+    assert residual.yData[-1] == pytest.approx(1e-7)
+    assert monitor.plots.residual_plot.getPlotItem().ctrl.logYCheck.isChecked()
+    # an exact zero is drawn at the floor, not dropped (log axis)
+    assert monitor.plots.series["S9"].residual_curve.yData[-1] > 0
+    q = monitor.plots.series["S5"]
+    assert list(q.q_curve.yData) == [-2.0] * 6 and list(q.q_low.yData) == [-3.0] * 6
+    assert q.q_band is not None
+    # legend: one entry per tear
+    legend = monitor.plots.residual_plot.getPlotItem().legend
+    assert [label.text for _sample, label in legend.items] == ["S5", "S9"]
+    # tolerance line on the log axis sits at log10(tolerance)
+    assert monitor.plots.tolerance_line.value() == pytest.approx(math.log10(1e-8))
+
+
+def test_settings_change_marks_both_plots(qtbot, monitor):
+    settings = SolverSettings()
+    monitor.bind_settings(settings)
+    monitor.begin_run()
+    monitor.add_record(record(1, settings, {"S5": 1.0}))
+    monitor.add_record(record(2, settings, {"S5": 0.5}))
+    type_into(qtbot, monitor.controls.edits["q_max"], "0.5")
+    assert settings.q_max == 0.5 and settings.version == 1
+    monitor.add_record(record(3, settings, {"S5": 0.2}))
+    monitor.redraw()
+    assert list(monitor.plots.markers) == [3]
+    residual_marker, q_marker = monitor.plots.markers[3]
+    assert residual_marker.value() == 3 and q_marker.value() == 3
+    assert "q_max 0 → 0.5" in residual_marker.label.format
+    assert monitor.plots.q_max_line.value() == 0.5
+
+
+def test_invalid_control_keeps_the_old_value(qtbot, monitor):
+    settings = SolverSettings(q_min=-5.0, q_max=0.0)
+    monitor.bind_settings(settings)
+    edit = monitor.controls.edits["q_min"]
+    type_into(qtbot, edit, "2")
+    assert settings.q_min == -5.0 and settings.version == 0
+    message = monitor.controls.error_text()
+    assert "q_min" in message and "q_max" in message and "kept q_min = -5" in message
+    assert edit.text() == "2" and "border" in edit.styleSheet()
+    type_into(qtbot, monitor.controls.edits["max_iterations"], "many")
+    assert "whole number" in monitor.controls.error_text()
+    assert settings.max_iterations == 200
+    type_into(qtbot, edit, "-20")
+    assert settings.q_min == -20.0 and monitor.controls.error_text() == ""
+
+
+def test_diagnosis_of_a_real_run_and_apply_suggested_bounds(qtbot, monitor):
+    # x = 0.9 x + 1: slope 0.9, Wegstein's ideal q = s/(s-1) = -9, clipped at q_min = -5
+    # (CHECKS.md, polykin fixpoint_wegstein: 17 iterations at the default bounds)
+    settings = SolverSettings(tolerance=1e-10)
+    problem = FixedPointProblem(lambda x: 0.9 * x + 1.0, np.array([1.0]), {"loop": slice(0, 1)})
+    monitor.bind_settings(settings)
+    monitor.begin_run()
+    result = solve_fixed_point(problem, "wegstein", settings, monitor.add_record)
+    monitor.end_run(result)
+    text = monitor.diagnosis_view.toPlainText()
+    assert "loop" in text and "q_min = -5 stops it" in text
+    low, high = monitor.suggestion()
+    assert low < -9.0 <= high
+    with qtbot.waitSignal(monitor.bounds_applied) as signal:
+        qtbot.mouseClick(monitor.apply_button, Qt.MouseButton.LeftButton)
+    assert signal.args == [low, high]
+    assert (settings.q_min, settings.q_max) == (low, high)
+    assert monitor.controls.edits["q_min"].text() == f"{low:g}"
+    assert monitor.plots.q_min_line.value() == low
+
+
+def test_show_history_of_a_stored_run(qtbot, monitor):
+    settings = SolverSettings()
+    problem = FixedPointProblem(lambda x: np.cos(x), np.array([1.0]), {"T": slice(0, 1)})
+    result = solve_fixed_point(problem, "wegstein", settings)
+    monitor.show_history(result)
+    series = monitor.plots.series["T"]
+    assert len(series.residual_curve.xData) == len(result.history.records)
+    assert f"{result.iterations} iterations" in monitor.status_label.text()
+    assert result.message in monitor.diagnosis_view.toPlainText()
+    monitor.show_history(None)
+    assert monitor.plots.series == {}
