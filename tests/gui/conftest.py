@@ -129,6 +129,16 @@ def drop_kind(view, kind: str, scene_point: QPointF) -> None:
 
 
 @pytest.fixture
+def screenshot_dir(tmp_path) -> Path:
+    """Where screenshots go: ``$LOOPWRIGHT_SCREENSHOT_DIR`` when set (``docs/screenshots``
+    for the README), else the test's temporary folder, so a test run leaves the tree as
+    it was."""
+    folder = Path(os.environ.get("LOOPWRIGHT_SCREENSHOT_DIR") or tmp_path)
+    folder.mkdir(parents=True, exist_ok=True)
+    return folder
+
+
+@pytest.fixture
 def example_path():
     def path(name: str) -> Path:
         return EXAMPLES / f"{name}.loop.json"

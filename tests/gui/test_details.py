@@ -261,7 +261,7 @@ def test_component_used_by_a_spec_is_not_removed(qtbot, pane, sheet):
     assert "argon" in sheet.component_names()
 
 
-def test_details_of_a_solved_example(qtbot):
+def test_details_of_a_solved_example(qtbot, screenshot_dir):
     from pathlib import Path
 
     from model.case_file import load_case
@@ -284,8 +284,7 @@ def test_details_of_a_solved_example(qtbot):
     assert "Btu/lbmol" in table.table.verticalHeaderItem(table._heat_row()).text()
     assert "Btu/h" in form.results_label.text()
     pane.set_unit_system("Metric")
-    shots = root / "docs" / "screenshots"
-    shots.mkdir(parents=True, exist_ok=True)
+    shots = screenshot_dir
     assert pane.grab().save(str(shots / "details_reactor.png"))
     pane.show_block("Make-up gas")
     assert pane.grab().save(str(shots / "details_feed.png"))

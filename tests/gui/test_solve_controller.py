@@ -65,7 +65,9 @@ def type_into(qtbot, line_edit, text):
     qtbot.keyClick(line_edit, Qt.Key.Key_Return)
 
 
-def test_q_bounds_changed_during_a_solve_are_recorded_and_marked(qtbot, case, running):
+def test_q_bounds_changed_during_a_solve_are_recorded_and_marked(
+    qtbot, case, running, screenshot_dir
+):
     controller, monitor, records, solutions = running
     progress_threads = []
     controller.progress.connect(lambda _r: progress_threads.append(threading.current_thread()))
@@ -95,9 +97,7 @@ def test_q_bounds_changed_during_a_solve_are_recorded_and_marked(qtbot, case, ru
     assert all(t is threading.main_thread() for t in progress_threads)  # queued delivery
     assert not controller.is_running()
     grab = monitor.grab()
-    shots = Path(__file__).resolve().parents[2] / "docs" / "screenshots"
-    shots.mkdir(parents=True, exist_ok=True)
-    assert grab.save(str(shots / "recycle_monitor.png"))
+    assert grab.save(str(screenshot_dir / "recycle_monitor.png"))
 
 
 def test_stop_ends_the_run_with_status_stopped(qtbot, case, running):

@@ -157,8 +157,6 @@ def test_log_lists_issues_and_links_to_blocks(qtbot):
     assert log.entries() == []
 
 
-def test_screenshot_of_the_stream_table(table, solution):
+def test_screenshot_of_the_stream_table(table, solution, screenshot_dir):
     table.set_solution(solution, "Metric")
-    shots = Path(__file__).resolve().parents[2] / "docs" / "screenshots"
-    shots.mkdir(parents=True, exist_ok=True)
-    assert table.grab().save(str(shots / "stream_table.png"))
+    assert table.grab().save(str(screenshot_dir / "stream_table.png"))

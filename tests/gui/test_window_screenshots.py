@@ -7,19 +7,9 @@ tree untouched.
 
 from __future__ import annotations
 
-import os
-from pathlib import Path
-
 import pytest
 
 pytestmark = pytest.mark.gui
-
-
-@pytest.fixture
-def screenshot_dir(tmp_path) -> Path:
-    folder = Path(os.environ.get("LOOPWRIGHT_SCREENSHOT_DIR") or tmp_path)
-    folder.mkdir(parents=True, exist_ok=True)
-    return folder
 
 
 def test_window_screenshots_of_a_solved_example(qtbot, window, example_path, screenshot_dir):
