@@ -14,6 +14,11 @@ Two forms are supported:
     ``Cp = c0 + c1 T + c2 T^2 + c3 T^3 + c4 T^4`` in J/mol/K (one to five coefficients);
     used for hand-defined components and for the polynomials of Poling, Prausnitz &
     O'Connell (*The Properties of Gases and Liquids*, 5th ed.) after multiplying by R.
+
+:meth:`CpTable.heat_capacity_and_integral` evaluates many streams at once with the
+bit-exact forms above; :meth:`CpTable.stream_totals` is the cheap path for one stream
+at one temperature (the flowsheet pass), the same correlations regrouped as a sum of
+per-component terms and equal to the first to rounding.
 """
 
 from __future__ import annotations
@@ -36,6 +41,9 @@ _POLYNOMIAL_TERMS = 5
 _EXPONENTS = np.arange(_POLYNOMIAL_TERMS, dtype=float)
 # TRC coefficients that give Cp = 0 and integral = 0 at every T (a0 = a1 = a3 = a4 = a5 = 0)
 _TRC_ZERO = (0.0, 0.0, 1.0, 0.0, 0.0, 0.0, 1.0, 0.0)
+#: A single stream with at most this many components carrying flow is summed component by
+#: component in Python floats (numpy's cost per call outweighs its speed for so few).
+SCALAR_PATH_LIMIT = 24
 
 
 @dataclass(frozen=True)
@@ -230,9 +238,15 @@ class CpTable:
     ----------
     correlations
         One correlation per component, in the component order.
+    enthalpy_offset
+        Per component, a constant (J/mol) that :meth:`stream_totals` adds to the
+        sensible enthalpy; a property basis passes the formation enthalpies, so that
+        one call gives a stream's enthalpy flow on the formation basis. Default 0.
     """
 
-    def __init__(self, correlations: Sequence[CpCorrelation]) -> None:
+    def __init__(
+        self, correlations: Sequence[CpCorrelation], enthalpy_offset: Sequence[float] | None = None
+    ) -> None:
         self.correlations = tuple(correlations)
         self.size = len(self.correlations)
         trc = np.tile(_TRC_ZERO, (self.size, 1))
@@ -249,6 +263,20 @@ class CpTable:
         self.T_min = np.array([c.T_min for c in self.correlations], dtype=float)
         self.T_max = np.array([c.T_max for c in self.correlations], dtype=float)
         self._integral_at_reference = self.heat_capacity_and_integral(T_REFERENCE)[1]
+        # the single-stream path (see stream_totals): T - a7 and T + a6 in one addition,
+        # and the coefficients of the per-component terms of the integral and of Cp
+        self._shifts = np.stack([-self._trc.a7, self._trc.a6])
+        self._minus_a2 = self._trc.minus_a2
+        offset = (
+            np.zeros(self.size)
+            if enthalpy_offset is None
+            else np.array(enthalpy_offset, dtype=float)
+        )
+        self._constant = offset - self._integral_at_reference  # per mole at T = 0 K, J/mol
+        self._term_coefficients = _term_coefficients(self._trc, self._constant)
+        self._scalar_terms = _scalar_terms(
+            self._term_coefficients, self._trc, self._poly, self.correlations
+        )
 
     def heat_capacity_and_integral(self, T: float | np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Cp (J/mol/K) and its integral from 0 K (J/mol).
@@ -279,3 +307,200 @@ class CpTable:
         """Cp (J/mol/K) and the integral of Cp from 298.15 K to T (J/mol)."""
         cp, integral = self.heat_capacity_and_integral(T)
         return cp, integral - self._integral_at_reference
+
+    def stream_totals(self, flows: np.ndarray, T: float) -> tuple[float, float]:
+        """Enthalpy flow (W) and heat-capacity flow (W/K) of one stream at temperature T.
+
+        Per component the enthalpy is the table's ``enthalpy_offset`` plus the integral
+        of Cp from 298.15 K to T: algebraically ``flows @ (offset + sensible)`` and
+        ``flows @ Cp`` from :meth:`heat_capacity_and_sensible_enthalpy`, to rounding
+        (about 1e-15 of the largest term), not to the bit.
+
+        The cheap path of a flowsheet pass, where one stream is asked at a time. The
+        correlation is written as a sum of per-component terms times constant
+        coefficients (set up once, see :func:`_term_coefficients`). With few components
+        carrying flow (:func:`few_components`) the terms are summed in Python floats,
+        skipping components without flow; otherwise they are rows of one array
+        (:func:`_single_temperature_terms`), about twenty numpy operations whatever the
+        number of components, weighted by the flows in one matrix-vector product.
+
+        Parameters
+        ----------
+        flows
+            Component flows, a float array of shape (n,), mol/s.
+        T
+            Temperature, K (a float).
+        """
+        if few_components(flows):
+            return _scalar_totals(flows.tolist(), T, self._scalar_terms)
+        if not self._has_trc:
+            enthalpy, heat_capacity = float(self._constant @ flows), 0.0
+        else:
+            terms = _single_temperature_terms(T, self._shifts, self._minus_a2)
+            terms *= flows
+            enthalpy, heat_capacity = (self._term_coefficients @ terms.ravel()).tolist()
+        if self._has_poly:
+            power = 1.0
+            for order, coefficient in enumerate((self._poly @ flows).tolist()):
+                heat_capacity += coefficient * power
+                power *= T
+                enthalpy += coefficient * power / (order + 1.0)
+        return enthalpy, heat_capacity
+
+
+def few_components(flows: np.ndarray) -> bool:
+    """True when at most :data:`SCALAR_PATH_LIMIT` components of ``flows`` are non-zero."""
+    return len(flows) <= SCALAR_PATH_LIMIT or np.count_nonzero(flows) <= SCALAR_PATH_LIMIT
+
+
+# Rows of the per-component terms of one stream at one temperature T, y = (T - a7)/(T + a6)
+# above a7 (else 0), q = 1/(T + a6), e = exp(-a2/T); see _single_temperature_terms.
+_ROW_LOG, _ROW_RATIO, _ROW_Y = 0, 1, 2  # ln(1 - y), y/(1 - y), then y^1 .. y^8 (rows 2..9)
+_ROW_EXP, _ROW_EXP_T2, _ROW_Q2Y6, _ROW_ONE, _ROW_T = 10, 11, 12, 13, 14
+_TERM_ROWS = 15
+_EXP_OVERFLOW = 709.0  # math.exp raises above about 709.78, where numpy gives inf
+
+
+def _single_temperature_terms(T: float, shifts: np.ndarray, minus_a2: np.ndarray) -> np.ndarray:
+    """The (15, n) per-component terms of the TRC integral and Cp at one temperature T.
+
+    ``shifts`` is ``[-a7, a6]`` stacked, ``minus_a2`` is ``-a2``; both (n,) rows.
+    """
+    terms = np.empty((_TERM_ROWS, shifts.shape[1]))
+    shifted = T + shifts  # T - a7, T + a6
+    q = 1.0 / shifted[1]
+    y = np.maximum(shifted[0], 0.0, out=terms[_ROW_Y])
+    y *= q
+    powers = terms[_ROW_Y : _ROW_Y + 8]
+    powers[1:] = y
+    np.multiply.accumulate(powers, axis=0, out=powers)  # y, y^2, ..., y^8
+    one_minus_y = 1.0 - y
+    np.log(one_minus_y, out=terms[_ROW_LOG])
+    np.divide(y, one_minus_y, out=terms[_ROW_RATIO])
+    T_inverse = 1.0 / T
+    exponential = np.multiply(minus_a2, T_inverse, out=terms[_ROW_EXP])
+    np.exp(exponential, out=exponential)
+    np.multiply(exponential, T_inverse * T_inverse, out=terms[_ROW_EXP_T2])
+    np.multiply(q, q, out=terms[_ROW_Q2Y6])
+    terms[_ROW_Q2Y6] *= powers[5]  # q^2 y^6 = y^8 / (T - a7)^2
+    terms[_ROW_ONE] = 1.0
+    terms[_ROW_T] = T
+    return terms
+
+
+def _term_coefficients(c: TrcArrays, constant: np.ndarray) -> np.ndarray:
+    """(2, 15 n) coefficients: row 0 gives the enthalpy, row 1 Cp, from the terms.
+
+    ``constant`` is each component's term independent of T (offset less H(298.15 K)).
+
+    Expanding ``TRCCp_integral``: ``H(T) - H(0) = R (a0 T + (a1/a2) e + (a6 + a7) ((2 a3 +
+    8 a4) ln(1 - y) + (a3 + a4) y/(1 - y) + (a3 + 7 a4) y + 3 a4 y^2 + 5/3 a4 y^3 + a4 y^4
+    + 0.6 a4 y^5 + 1/3 a4 y^6 + (a4 - a5/(a6 + a7)^2)/7 y^7))``; and ``Cp = R (a0 + a1
+    e/T^2 + a3 y^2 + a4 y^8 - a5 q^2 y^6)``, since ``y/(T - a7) = q``.
+    """
+    enthalpy = np.zeros((_TERM_ROWS, len(c.a0)))
+    heat_capacity = np.zeros_like(enthalpy)
+    scale = R * c.first
+    enthalpy[_ROW_LOG] = scale * c.log_factor
+    enthalpy[_ROW_RATIO] = scale * (c.a3 + c.a4)
+    polynomial = (c.a3 + 7.0 * c.a4, 3.0 * c.a4, 5.0 / 3.0 * c.a4, c.a4, 0.6 * c.a4, c.a4 / 3.0)
+    for power, coefficient in enumerate((*polynomial, c.fifth_factor), start=1):
+        enthalpy[_ROW_Y + power - 1] = scale * coefficient
+    enthalpy[_ROW_EXP] = R * c.a1 / c.a2_nonzero
+    enthalpy[_ROW_ONE] = constant
+    enthalpy[_ROW_T] = R * c.a0
+    heat_capacity[_ROW_Y + 1] = R * c.a3
+    heat_capacity[_ROW_Y + 7] = R * c.a4
+    heat_capacity[_ROW_EXP_T2] = R * c.a1
+    heat_capacity[_ROW_Q2Y6] = -R * c.a5
+    heat_capacity[_ROW_ONE] = R * c.a0
+    return np.stack([enthalpy.ravel(), heat_capacity.ravel()])
+
+
+class _ScalarTerms(NamedTuple):
+    """Per-component floats of :func:`_scalar_totals`, TRC and polynomial columns apart."""
+
+    trc_columns: tuple[int, ...]
+    trc: list[tuple[float, ...]]
+    polynomial_columns: tuple[int, ...]
+    polynomial: list[tuple[float, ...]]
+
+
+def _scalar_terms(
+    coefficients: np.ndarray,
+    c: TrcArrays,
+    polynomial: np.ndarray,
+    correlations: Sequence[CpCorrelation],
+) -> _ScalarTerms:
+    """The floats :func:`_scalar_totals` needs, per component.
+
+    TRC: a7, a6, -a2 and the term coefficients (20 floats); polynomial: the constant
+    term (offset less H(298.15 K) from 0 K), c0..c4 for Cp and c0, c1/2 .. c4/5 for its
+    integral (11 floats).
+    """
+    enthalpy, heat_capacity = coefficients.reshape(2, _TERM_ROWS, -1)
+    trc_rows = (
+        c.a7,
+        c.a6,
+        c.minus_a2,
+        enthalpy[_ROW_ONE],
+        enthalpy[_ROW_T],
+        enthalpy[_ROW_EXP],
+        heat_capacity[_ROW_ONE],
+        heat_capacity[_ROW_EXP_T2],
+        enthalpy[_ROW_LOG],
+        enthalpy[_ROW_RATIO],
+        *enthalpy[_ROW_Y : _ROW_Y + 7],  # y^1 .. y^7
+        heat_capacity[_ROW_Y + 1],  # y^2
+        heat_capacity[_ROW_Y + 7],  # y^8
+        heat_capacity[_ROW_Q2Y6],
+    )
+    polynomial_rows = (
+        enthalpy[_ROW_ONE],
+        *polynomial,
+        *(polynomial / (_EXPONENTS + 1.0)[:, None]),
+    )
+    trc = [k for k, correlation in enumerate(correlations) if correlation.name == TRC]
+    others = [k for k, correlation in enumerate(correlations) if correlation.name != TRC]
+    return _ScalarTerms(
+        tuple(trc),
+        [tuple(float(row[k]) for row in trc_rows) for k in trc],
+        tuple(others),
+        [tuple(float(row[k]) for row in polynomial_rows) for k in others],
+    )
+
+
+def _scalar_totals(flows: list[float], T: float, terms: _ScalarTerms) -> tuple[float, float]:
+    """:meth:`CpTable.stream_totals` in Python floats, components without flow skipped."""
+    enthalpy = heat_capacity = 0.0
+    if terms.polynomial:
+        for column, (h_one, c0, c1, c2, c3, c4, i0, i1, i2, i3, i4) in zip(
+            terms.polynomial_columns, terms.polynomial, strict=True
+        ):
+            flow = flows[column]
+            enthalpy += flow * (h_one + T * (i0 + T * (i1 + T * (i2 + T * (i3 + T * i4)))))
+            heat_capacity += flow * (c0 + T * (c1 + T * (c2 + T * (c3 + T * c4))))
+        flows = [flows[column] for column in terms.trc_columns]
+    T_inverse = 1.0 / T
+    T_inverse_squared = T_inverse * T_inverse
+    for flow, component in zip(flows, terms.trc, strict=True):
+        if flow == 0.0:
+            continue
+        (a7, a6, minus_a2, h_one, h_T, h_exp, c_one, c_exp, h_log, h_ratio,
+         h1, h2, h3, h4, h5, h6, h7, c_y2, c_y8, c_q2y6) = component  # fmt: skip
+        exponent = minus_a2 * T_inverse
+        exponential = math.exp(exponent) if exponent < _EXP_OVERFLOW else math.inf  # as numpy
+        h = h_one + h_T * T + h_exp * exponential
+        c = c_one + c_exp * exponential * T_inverse_squared
+        if T > a7:
+            q = 1.0 / (T + a6)
+            y = (T - a7) * q
+            one_minus_y = 1.0 - y
+            y2 = y * y
+            y6 = y2 * y2 * y2
+            h += h_log * math.log(one_minus_y) + h_ratio * y / one_minus_y
+            h += y * (h1 + y * (h2 + y * (h3 + y * (h4 + y * (h5 + y * (h6 + y * h7))))))
+            c += c_y2 * y2 + y6 * (c_y8 * y2 + c_q2y6 * q * q)
+        enthalpy += flow * h
+        heat_capacity += flow * c
+    return enthalpy, heat_capacity

@@ -250,10 +250,15 @@ def _find_root(
     if best_residual <= RESIDUAL_TOLERANCE:  # no recycle: the start is the answer
         return best, "none (start estimate exact)"
     for method in methods:
-        with np.errstate(all="ignore"):
-            found = root(
-                system.residual, best, method=method, options=_options(method, system.size)
-            )
+        try:
+            with np.errstate(all="ignore"):
+                found = root(
+                    system.residual, best, method=method, options=_options(method, system.size)
+                )
+        except (ValueError, np.linalg.LinAlgError):
+            # e.g. krylov's "Jacobian inversion yielded zero vector": this method found
+            # nothing from here; the next one starts from the best point so far
+            continue
         residual = _residual_at(system, found.x)
         if residual < best_residual:
             best, best_residual = np.array(found.x, dtype=float), residual

@@ -20,7 +20,7 @@ from collections.abc import Callable, Sequence
 import numpy as np
 
 from model.components import Component
-from model.cp_correlations import CpTable
+from model.cp_correlations import CpTable, few_components
 from model.errors import InputError
 
 WATSON_EXPONENT = 0.38
@@ -28,6 +28,7 @@ T_SEARCH_MIN = 10.0  # K, bracket of temperature_from_enthalpy
 T_SEARCH_MAX = 6000.0  # K
 _T_TOLERANCE = 1e-9  # K, step size at which the temperature solve stops
 _MAX_ITERATIONS = 200
+_RECENT_SIZE = 8  # single-stream evaluations remembered (see _stream_enthalpy_and_heat_capacity)
 _ROUND_OFF = 1e-12  # relative to the total flow: negative flows this small are zero
 
 
@@ -69,7 +70,12 @@ class PropertyBasis:
         self.Hf_ig = np.array([c.Hf_ig for c in components])
         self.Hvap_Tb = np.array([c.Hvap_Tb for c in components])
         self._reduced_Tb_complement = 1.0 - self.Tb / self.Tc
-        self._cp = CpTable([c.cp for c in components])
+        # single-stream Watson: dHvap = _watson_scale * max(1 - T/Tc, 0)^0.38
+        self._inverse_Tc = 1.0 / self.Tc
+        self._watson_scale = self.Hvap_Tb / self._reduced_Tb_complement**WATSON_EXPONENT
+        self._watson_terms = list(zip(self._watson_scale.tolist(), self.Tc.tolist(), strict=True))
+        self._recent: dict[tuple[float, bool, bytes], tuple[float, float]] = {}
+        self._cp = CpTable([c.cp for c in components], enthalpy_offset=self.Hf_ig)
         self.cp_T_min = self._cp.T_min
         self.cp_T_max = self._cp.T_max
         self.element_names, self.element_matrix = _element_matrix(components)
@@ -123,8 +129,17 @@ class PropertyBasis:
         return np.einsum("ij,ij->i", flows, heat_capacity)
 
     def stream_enthalpy_flow(self, flows: np.ndarray, T: float, liquid: bool) -> float:
-        """Enthalpy flow of one stream, W: the cheap path for single streams."""
+        """Enthalpy flow of one stream, W: the cheap path for single streams.
+
+        Agrees with :meth:`enthalpy_flow` to rounding (relative 1e-13), not to the bit.
+        """
         return self._stream_enthalpy_and_heat_capacity(flows, T, liquid)[0]
+
+    def stream_enthalpy_and_heat_capacity_flow(
+        self, flows: np.ndarray, T: float, liquid: bool
+    ) -> tuple[float, float]:
+        """Enthalpy flow (W) and its temperature derivative (W/K) of one stream, at once."""
+        return self._stream_enthalpy_and_heat_capacity(flows, T, liquid)
 
     def stream_heat_capacity_flow(self, flows: np.ndarray, T: float, liquid: bool) -> float:
         """d(enthalpy flow)/dT of one stream, W/K."""
@@ -166,18 +181,11 @@ class PropertyBasis:
         InputError
             Bad flows, or no temperature in [10 K, 6000 K] gives that enthalpy flow.
         """
-        flows = np.asarray(flows, dtype=float)
-        if flows.shape != (len(self.names),) or not np.all(np.isfinite(flows)):
-            raise InputError("flows", flows, f"{len(self.names)} finite component flows")
-        if np.any(flows < 0.0):
-            # round-off from upstream subtractions (a few ulps of the total) counts as 0
-            if np.any(flows < -_ROUND_OFF * np.abs(flows).sum()):
-                raise InputError("flows", flows, "component flows of 0 mol/s or more")
-            flows = np.maximum(flows, 0.0)
+        flows = self._checked_flows(flows)
         if not math.isfinite(enthalpy_flow):
             raise InputError("enthalpy_flow", enthalpy_flow, "a finite enthalpy flow in W")
         guess = float(T_guess) if math.isfinite(T_guess) else 298.15
-        if not np.any(flows > 0.0):
+        if not flows.sum() > 0.0:
             if enthalpy_flow == 0.0:
                 return guess
             raise InputError("enthalpy_flow", enthalpy_flow, "0 W for a stream with no flow")
@@ -201,12 +209,23 @@ class PropertyBasis:
     # ---- reactions --------------------------------------------------------------------
 
     def standard_heat_of_reaction(self, stoichiometry: np.ndarray) -> float:
-        """Hess's law at 298.15 K, ideal gas: sum of nu * Hf_ig, J/mol of reaction."""
-        return float(self._stoichiometry(stoichiometry) @ self.Hf_ig)
+        """Hess's law at 298.15 K, ideal gas: sum of nu * Hf_ig, J/mol of reaction.
+
+        Coefficients so large that the sum overflows give inf or NaN, without a warning.
+        """
+        nu = self._stoichiometry(stoichiometry)
+        with np.errstate(over="ignore", invalid="ignore"):
+            return float(nu @ self.Hf_ig)
 
     def element_balance(self, stoichiometry: np.ndarray) -> np.ndarray:
-        """Net atoms of each element (``element_names`` order) made by one reaction."""
-        return self.element_matrix @ self._stoichiometry(stoichiometry)
+        """Net atoms of each element (``element_names`` order) made by one reaction.
+
+        Coefficients so large that a sum overflows give inf or NaN there (never a
+        balance), without a numpy warning; the reaction checks refuse them first.
+        """
+        nu = self._stoichiometry(stoichiometry)
+        with np.errstate(over="ignore", invalid="ignore"):
+            return self.element_matrix @ nu
 
     # ---- warnings ---------------------------------------------------------------------
 
@@ -248,13 +267,68 @@ class PropertyBasis:
     def _stream_enthalpy_and_heat_capacity(
         self, flows: np.ndarray, T: float, liquid: bool
     ) -> tuple[float, float]:
-        """Enthalpy flow (W) and heat-capacity flow (W/K) of one stream at T."""
-        enthalpy, heat_capacity = self._ideal_gas(float(T))
+        """Enthalpy flow (W) and heat-capacity flow (W/K) of one stream at T.
+
+        A flowsheet pass often asks for the same stream at the same temperature twice
+        in a row (a block's outlet at its set temperature, then the next block's inlet;
+        an inlet's enthalpy, then the first step of the outlet's temperature solve), so
+        the last few results are kept, keyed by the exact flows, T and phase.
+        """
+        flows = np.asarray(flows, dtype=float)
+        T = float(T)
+        liquid = bool(liquid)
+        key = (T, liquid, flows.tobytes())
+        recent = self._recent
+        known = recent.get(key)
+        if known is not None:
+            return known
+        enthalpy, heat_capacity = self._cp.stream_totals(flows, T)  # formation basis
         if liquid:
-            heat, slope = self._vaporization(float(T))
-            enthalpy = enthalpy - heat
-            heat_capacity = heat_capacity - slope
-        return float(flows @ enthalpy), float(flows @ heat_capacity)
+            heat, slope = self._stream_vaporization(flows, T)
+            enthalpy -= heat
+            heat_capacity -= slope
+        if len(recent) >= _RECENT_SIZE:
+            try:  # forget the oldest
+                del recent[next(iter(recent))]
+            except (RuntimeError, KeyError, StopIteration):  # another thread was there first
+                recent.clear()
+        recent[key] = (enthalpy, heat_capacity)
+        return enthalpy, heat_capacity
+
+    def _stream_vaporization(self, flows: np.ndarray, T: float) -> tuple[float, float]:
+        """Flow-weighted Watson heat of vaporization (W) and its T derivative (W/K).
+
+        ``dHvap = Hvap_Tb ((1 - T/Tc)/(1 - Tb/Tc))^0.38`` below Tc, 0 above; its slope is
+        ``-0.38 dHvap / (Tc - T)``. In Python floats for few components with flow.
+        """
+        if few_components(flows):
+            heat_flow = slope_flow = 0.0
+            for flow, (scale, Tc) in zip(flows.tolist(), self._watson_terms, strict=True):
+                if flow != 0.0 and T < Tc:
+                    heat = scale * (1.0 - T / Tc) ** WATSON_EXPONENT
+                    heat_flow += flow * heat
+                    slope_flow -= flow * WATSON_EXPONENT * heat / (Tc - T)
+            return heat_flow, slope_flow
+        terms = np.empty((2, len(self.names)))
+        reduced_complement = np.maximum(1.0 - T * self._inverse_Tc, 0.0)
+        heat = np.multiply(self._watson_scale, reduced_complement**WATSON_EXPONENT, out=terms[0])
+        # at and above Tc dHvap = 0 and so is its slope
+        np.divide(heat, np.maximum(self.Tc - T, 1e-300), out=terms[1])
+        heat_flow, ratio_flow = (terms @ flows).tolist()
+        return heat_flow, -WATSON_EXPONENT * ratio_flow
+
+    def _checked_flows(self, flows: np.ndarray) -> np.ndarray:
+        """Flows of one stream: finite, not negative (round-off of -1e-12 of the total is 0)."""
+        flows = np.asarray(flows, dtype=float)
+        if flows.shape == (len(self.names),) and flows.min() >= 0.0:
+            if math.isfinite(flows.sum()):
+                return flows  # the usual case: two reductions
+        if flows.shape != (len(self.names),) or not np.all(np.isfinite(flows)):
+            raise InputError("flows", flows, f"{len(self.names)} finite component flows")
+        # round-off from upstream subtractions (a few ulps of the total) counts as 0
+        if np.any(flows < -_ROUND_OFF * np.abs(flows).sum()):
+            raise InputError("flows", flows, "component flows of 0 mol/s or more")
+        return np.maximum(flows, 0.0)
 
     def _stoichiometry(self, stoichiometry: np.ndarray) -> np.ndarray:
         nu = np.asarray(stoichiometry, dtype=float)

@@ -51,11 +51,13 @@ def enthalpy(basis, state: StreamState) -> float:
 
 
 def enthalpies(basis, states: list[StreamState]) -> np.ndarray:
-    """Enthalpy flows of several streams in one vectorised call, W."""
-    flows = np.stack([s.flows for s in states])
-    temperatures = np.array([s.T for s in states])
-    liquid = np.array([s.phase == "liquid" for s in states])
-    return basis.enthalpy_flow(flows, temperatures, liquid)
+    """Enthalpy flows of several streams, W.
+
+    One stream at a time on the single-stream path: a block's few streams are mostly
+    ones the pass has just evaluated (an upstream block's outlet at its set
+    temperature), which that path remembers.
+    """
+    return np.array([enthalpy(basis, state) for state in states])
 
 
 def outlet_pressure(block: CompiledBlock, inlet_pressure: float, pressure_drop: float) -> float:

@@ -17,14 +17,23 @@ from typing import Any
 from model.errors import InputError
 from model.spec_values import ComponentAmounts, Reaction, TypedQuantity, check_fraction
 from units_of_measure.conversion import to_internal
+from units_of_measure.errors import UnitError
 from units_of_measure.kinds import get_kind
+from units_of_measure.parsing import parse_quantity
 
 #: Unit words of compositions and of the separator's split (not pint units).
 COMPOSITION_UNITS = ("mole fraction", "mass fraction")
 SPLIT_UNITS = ("fraction to first outlet",)
 #: A feed composition is normalised when its sum is this close to 1; else refused.
 COMPOSITION_SUM_TOLERANCE = 1e-6
+#: Largest stoichiometric coefficient, in magnitude (common practice: real reactions have
+#: small integers or fractions; beyond this the element balance would lose all precision).
+STOICHIOMETRY_LIMIT = 1e6
 _OUTLET_PORT = re.compile(r"^out[1-9][0-9]*$")
+# The number at the start of typed text such as "-300 degC" (after the typographic minus
+# and no-break spaces are made plain, as units_of_measure.parsing does).
+_LEADING_NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
+_TYPOGRAPHIC = str.maketrans({"\u2212": "-", "\u00a0": " ", "\u202f": " "})
 
 # Lower limits of quantity kinds in internal units: (limit, inclusive, words).
 _LOWER_LIMITS = {
@@ -38,9 +47,16 @@ _LOWER_LIMITS = {
 
 
 def check_quantity(name: str, value: Any, kind: str) -> TypedQuantity:
-    """A :class:`TypedQuantity` of ``kind`` (``"flow"``: molar or mass) within its range."""
+    """A :class:`TypedQuantity` of ``kind`` (``"flow"``: molar or mass) within its range.
+
+    Text as typed (``"25 degC"``) is read by :func:`units_of_measure.parse_quantity` and
+    returned as a TypedQuantity in the unit typed; when it is refused, the message keeps
+    the unit layer's reason (for example "at or above absolute zero").
+    """
     kinds = ("molar_flow", "mass_flow") if kind == "flow" else (kind,)
     words = " or ".join(get_kind(k).expectation.removeprefix("expected ") for k in kinds)
+    if isinstance(value, str):
+        value = _typed_quantity(name, value, kinds, words)
     if not isinstance(value, TypedQuantity):
         raise InputError(name, value, f"{words}: a number with its unit")
     if kind == "flow":
@@ -57,6 +73,29 @@ def check_quantity(name: str, value: Any, kind: str) -> TypedQuantity:
             name, str(value), f"{get_kind(used_kind).description} must be {limit_words}"
         )
     return value
+
+
+def _typed_quantity(name: str, text: str, kinds: tuple[str, ...], words: str) -> TypedQuantity:
+    """Typed text as a TypedQuantity of the first of ``kinds`` that reads it.
+
+    Raises
+    ------
+    InputError
+        Naming ``name``, the text and, for a single kind, the unit layer's reason.
+    """
+    refusals = []
+    for kind in kinds:
+        try:
+            quantity = parse_quantity(text, kind, name)
+        except UnitError as error:
+            refusals.append(error.allowed)
+            continue
+        plain = text.translate(_TYPOGRAPHIC).strip()
+        number = _LEADING_NUMBER.match(plain)
+        unit = plain[number.end() :].strip() if number else f"{quantity.units:~D}"
+        return TypedQuantity(float(quantity.magnitude), unit)
+    allowed = refusals[0] if len(refusals) == 1 else f"{words}: a number with its unit"
+    raise InputError(name, text, allowed)
 
 
 def flow_kind(unit: str) -> str:
@@ -213,15 +252,17 @@ def check_reaction(
         )
     _check_components(f"{name}.stoichiometry{label}", stoichiometry, components)
     for component, coefficient in stoichiometry.items():
-        number = _finite_number(
-            f"{name}.stoichiometry[{component}]{label}", coefficient, "a non-zero coefficient"
+        field = f"{name}.stoichiometry[{component}]{label}"
+        within = (
+            f"a non-zero coefficient between -{STOICHIOMETRY_LIMIT:g} and {STOICHIOMETRY_LIMIT:g}"
         )
+        number = _finite_number(field, coefficient, within)
         if number == 0.0:
             raise InputError(
-                f"{name}.stoichiometry[{component}]{label}",
-                coefficient,
-                "a non-zero coefficient (leave out components not taking part)",
+                field, coefficient, "a non-zero coefficient (leave out components not taking part)"
             )
+        if abs(number) > STOICHIOMETRY_LIMIT:
+            raise InputError(field, coefficient, within)
     if not any(v < 0 for v in stoichiometry.values()) or not any(
         v > 0 for v in stoichiometry.values()
     ):

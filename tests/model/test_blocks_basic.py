@@ -8,14 +8,19 @@ heat of vaporization against CoolProp water (1.5 %).
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import cantera as ct
 import numpy as np
 import pytest
 
+from model.block_kinds import BLOCK_KINDS
+from model.case_file import load_case
 from model.components import lookup_component
 from model.flowsheet import Flowsheet
 from model.solve import solve_flowsheet
 from model.spec_values import ComponentAmounts, TypedQuantity
+from units_of_measure import KINDS
 
 NASA = {s.name: s for s in ct.Species.list_from_file("nasa_gas.yaml")}
 
@@ -221,3 +226,23 @@ def test_separator_split_states_and_duty():
         - CoolProp.PropsSI("Hmolar", "T", 400.0, "P", 1e3, "Water")
     )
     assert solution.blocks["B"].duty_W == pytest.approx(condense, rel=0.015)
+
+
+def test_every_result_kind_of_the_solved_examples_is_a_units_of_measure_kind():
+    """Each BlockResult value names a kind the unit layer can convert (or "" for numbers),
+    so the details pane and reports can show it in the user's units."""
+    examples = sorted((Path(__file__).resolve().parents[2] / "examples").glob("*.loop.json"))
+    seen_kinds: set[str] = set()
+    used: set[str] = set()
+    for path in examples:
+        case = load_case(path)
+        solution = solve_flowsheet(case.flowsheet, method=case.method, settings=case.settings)
+        assert solution.status == "solved", (path.name, solution.message)
+        for name, result in solution.blocks.items():
+            seen_kinds.add(case.flowsheet.block(name).kind)
+            for label, (value, kind) in result.values.items():
+                assert kind == "" or kind in KINDS, (path.name, name, label, kind)
+                assert np.isfinite(value), (path.name, name, label)
+                used.add(kind)
+    assert seen_kinds == set(BLOCK_KINDS)  # the examples exercise every block kind
+    assert "heat_transfer_coefficient_area" in used  # the exchanger's UA

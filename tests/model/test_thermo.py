@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import warnings
+
 import cantera as ct
 import CoolProp.CoolProp as CoolProp
 import numpy as np
@@ -284,6 +286,15 @@ def test_element_balance_reports_unbalanced_reaction(basis):
     assert net["O"] == 2.0 and net["C"] == 0.0 and net["H"] == 0.0
     assert basis.element_names == sorted(basis.element_names)
     assert basis.element_matrix.shape == (len(basis.element_names), len(basis))
+
+
+def test_element_balance_of_overflowing_coefficients_is_not_finite_and_silent(basis):
+    nu = _nu(basis, {"methane": -1e308, "oxygen": -1e308, "carbon dioxide": 1e308})
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")  # numpy's overflow RuntimeWarning would fail here
+        net = basis.element_balance(nu)
+        heat = basis.standard_heat_of_reaction(nu)
+    assert not np.all(np.isfinite(net)) and not np.isfinite(heat)
 
 
 def test_stoichiometry_must_match_the_components(basis):

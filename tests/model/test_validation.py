@@ -6,6 +6,8 @@ leaves the flowsheet unchanged); the messages are checked for the four parts.
 
 from __future__ import annotations
 
+import warnings
+
 import pytest
 
 from model.components import lookup_component
@@ -77,6 +79,33 @@ def test_quantity_ranges_are_refused():
     )
     _refused(sheet, "H1", "pressure_drop", TypedQuantity(1.0, "barg"), "H1.pressure_drop", "gauge")
     _refused(sheet, "H1", "T", 300.0, "H1.T", "a number with its unit")
+
+
+def test_typed_text_below_absolute_zero_keeps_the_unit_layers_reason():
+    # absolute zero is 0 K = -273.15 degC (NIST SP 811); the reason comes from
+    # units_of_measure, the field, the text and what is allowed from the check
+    sheet = _sheet()
+    sheet.add_block("Heater", "H1")
+    error = _refused(
+        sheet, "H1", "T", "-300 degC", "H1.T", "'-300 degC'", "at or above absolute zero"
+    )
+    assert error.value == "-300 degC"
+    _refused(sheet, "H1", "T", "300 kg", "H1.T", "'300 kg'", "a temperature such as degC")
+    _refused(sheet, "H1", "pressure_drop", "1 barg", "H1.pressure_drop", "gauge")
+    _refused(sheet, "H1", "pressure_drop", "-1 bar", "H1.pressure_drop", "zero or positive")
+    sheet.add_block("Feed", "F1")
+    _refused(sheet, "F1", "total_flow", "3 degC", "F1.total_flow", "a molar flow such as")
+    _refused(sheet, "F1", "total_flow", "-3 t/h", "F1.total_flow", "zero or positive")
+
+
+def test_typed_text_that_reads_is_stored_in_the_unit_typed():
+    sheet = _sheet()
+    sheet.add_block("Heater", "H1")
+    sheet.add_block("Feed", "F1")
+    sheet.set_spec("H1", "T", "\u221240 degC")  # a typographic minus, as pasted
+    assert sheet.block("H1").specs["T"] == TypedQuantity(-40.0, "degC")
+    sheet.set_spec("F1", "total_flow", " 12.5 t/h ")
+    assert sheet.block("F1").specs["total_flow"] == TypedQuantity(12.5, "t/h")
 
 
 def test_choice_outside_the_list_is_refused():
@@ -189,6 +218,29 @@ def test_unbalanced_reaction_is_refused_with_the_net_atoms():
         "H -3",
         "N -1",
     )
+
+
+def test_huge_stoichiometric_coefficients_are_refused_without_numpy_warnings():
+    sheet = _sheet()
+    sheet.add_block("Reactor", "R1")
+    huge = Reaction({"nitrogen": -1e300, "hydrogen": -3e300, "ammonia": 2e300}, "nitrogen", 0.5)
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")  # an overflow warning would fail here
+        _refused(
+            sheet,
+            "R1",
+            "reactions",
+            [huge],
+            "R1.reactions[1].stoichiometry[nitrogen]",
+            "-1e+300",
+            "between -1e+06 and 1e+06",
+        )
+        sheet.block("R1").specs["reactions"] = [huge]  # as an old file could hold it
+        messages = [i.message for i in validate_flowsheet(sheet) if i.field == "reactions"]
+    assert any("stoichiometry[nitrogen]" in m and "1e+06" in m for m in messages)
+    # a large but balanced reaction stays acceptable: N2 + 3 H2 -> 2 NH3, times 2.5e5
+    scaled = Reaction({"nitrogen": -2.5e5, "hydrogen": -7.5e5, "ammonia": 5e5}, "nitrogen", 0.5)
+    sheet.set_spec("R1", "reactions", [scaled])
 
 
 def test_key_must_be_a_reactant():
