@@ -9,6 +9,7 @@ see ``model.solve``.
 from __future__ import annotations
 
 import itertools
+import math
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -345,7 +346,10 @@ class Flowsheet:
             self.stream_changed.emit(stream)
 
     def set_estimate(self, name: str, estimate: StreamEstimate | None) -> None:
+        """Set (or clear, with None) a tear stream's initial estimate, after checking it."""
         stream = self.stream(name)
+        if estimate is not None:
+            _check_estimate(f"{name}.estimate", estimate, self.component_names())
         if stream.estimate != estimate:
             stream.estimate = estimate
             self.stream_changed.emit(stream)
@@ -355,6 +359,31 @@ class Flowsheet:
             return self.streams[name]
         except KeyError:
             raise InputError("stream", name, "the name of a stream in this flowsheet") from None
+
+
+def _check_estimate(field: str, estimate: StreamEstimate, components: list[str]) -> None:
+    """Flows of known components, finite and not negative; T and P finite and above zero."""
+    for component, flow in estimate.flows.items():
+        if component not in components:
+            raise InputError(
+                f"{field}.flows",
+                component,
+                "one of the case's components: " + ", ".join(components),
+            )
+        if not math.isfinite(flow) or flow < 0.0:
+            raise InputError(
+                f"{field}.flows.{component}",
+                flow,
+                "a flow must be a finite number of mol/s, zero or more",
+            )
+    for label, value in (("T", estimate.T), ("P", estimate.P)):
+        if value is not None and (not math.isfinite(value) or value <= 0.0):
+            unit = "K" if label == "T" else "Pa"
+            raise InputError(
+                f"{field}.{label}",
+                value,
+                f"an absolute {label} above zero, in {unit}, or no estimate",
+            )
 
 
 def _check_name(what: str, name: Any, taken: dict[str, Any]) -> None:

@@ -106,3 +106,25 @@ def test_bad_names_are_refused() -> None:
     with pytest.raises(InputError) as error:
         flowsheet.add_block("Blender")
     assert "Mixer" in str(error.value)
+
+
+def test_estimates_are_checked_and_a_refusal_changes_nothing() -> None:
+    from model.spec_values import StreamEstimate
+
+    class _Water:
+        name = "water"
+
+    flowsheet = _loop()
+    flowsheet.add_component(_Water())
+    good = StreamEstimate({"water": 2.0}, 350.0, 2e5)
+    flowsheet.set_estimate("S4", good)
+    for bad, field in [
+        (StreamEstimate({"argon": 1.0}), "S4.estimate.flows"),
+        (StreamEstimate({"water": -1.0}), "S4.estimate.flows.water"),
+        (StreamEstimate({}, T=0.0), "S4.estimate.T"),
+        (StreamEstimate({}, P=float("nan")), "S4.estimate.P"),
+    ]:
+        with pytest.raises(InputError) as error:
+            flowsheet.set_estimate("S4", bad)
+        assert error.value.field == field
+        assert flowsheet.streams["S4"].estimate == good
