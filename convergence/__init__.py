@@ -2,7 +2,10 @@
 
 Direct substitution, bounded Wegstein (Wegstein 1958, CACM 1(6)) and a quasi-Newton
 method (Broyden) behind one entry point, :func:`solve_fixed_point`, with live settings,
-per-tear history and tear diagnosis. Imports numpy and scipy only.
+per-tear history and tear diagnosis. By default a run stops on the estimated error
+(:mod:`convergence.stopping`), widens its own q bounds where steady slopes ask for it
+(:mod:`convergence.adaptive`) and gives coupled variables their tear's dominant slope
+(:mod:`convergence.coupling`). Imports numpy and scipy only.
 """
 
 from convergence.diagnosis import TearDiagnosis, diagnose_tears, suggested_bounds

@@ -92,6 +92,14 @@ class IterationRecord:
         ``"direct"``, ``"accelerated"``, ``"quasi-Newton"`` or ``"none"``.
     worst_variable
         Name of the variable with the largest scaled residual.
+    estimated_errors
+        Per tear, the largest scaled residual divided by |1 - s| for the tear's recent
+        slope s, at least the residual (:mod:`convergence.stopping`); empty in records
+        written before it existed.
+    q_bounds
+        The widest q bounds a step of this iteration used when adaptive bounds had
+        widened them beyond the settings' (lowest q_min, highest q_max over the
+        variables); ``None`` when the settings' bounds were used.
     """
 
     iteration: int
@@ -103,11 +111,18 @@ class IterationRecord:
     slopes: dict[str, float | None] = field(default_factory=dict)
     step: str = "direct"
     worst_variable: str = ""
+    estimated_errors: dict[str, float] = field(default_factory=dict)
+    q_bounds: tuple[float, float] | None = None
 
     @property
     def largest_residual(self) -> float:
         """Largest scaled residual over all tears."""
         return max(self.residuals.values())
+
+    @property
+    def largest_estimated_error(self) -> float:
+        """Largest estimated error over all tears (the residual if none was recorded)."""
+        return max(self.estimated_errors.values(), default=self.largest_residual)
 
 
 @dataclass(frozen=True)
@@ -115,7 +130,9 @@ class Event:
     """Something that happened during a run, at an iteration.
 
     ``kind`` is one of ``"settings changed"``, ``"stopped"``, ``"diverging"``,
-    ``"not finite"``, ``"converged"``, ``"iteration limit"``, ``"restart"``.
+    ``"not finite"``, ``"converged"``, ``"iteration limit"``, ``"restart"``. A
+    widening by adaptive bounds is a ``"settings changed"`` event whose detail starts
+    with ``"adaptive bounds:"``.
     """
 
     iteration: int
@@ -136,6 +153,8 @@ def _record_to_dict(record: IterationRecord) -> dict[str, Any]:
         "slopes": dict(record.slopes),
         "step": record.step,
         "worst_variable": record.worst_variable,
+        "estimated_errors": dict(record.estimated_errors),
+        "q_bounds": None if record.q_bounds is None else list(record.q_bounds),
     }
 
 
@@ -155,6 +174,10 @@ def _record_from_dict(
         },
         step=str(data.get("step", "direct")),
         worst_variable=str(data.get("worst_variable", "")),
+        estimated_errors={
+            tear: float(value) for tear, value in data.get("estimated_errors", {}).items()
+        },
+        q_bounds=None if data.get("q_bounds") is None else tuple(map(float, data["q_bounds"])),
     )
 
 

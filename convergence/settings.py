@@ -18,6 +18,7 @@ from typing import Any
 from convergence.errors import ConvergenceInputError, UnknownSettingError
 
 Q_MODES = ("bounded", "held")
+STOP_RULES = ("estimated error", "residual")
 
 
 @dataclass(frozen=True)
@@ -42,6 +43,27 @@ class SettingsSnapshot:
         Largest scaled residual accepted as converged.
     max_iterations
         Largest number of iterations (= evaluations of g).
+    stop_on
+        What must fall to ``tolerance`` for the run to count as converged.
+        ``"estimated error"``: per tear, the largest scaled residual divided by
+        ``|1 - s|``, s being the tear's recent dominant slope (never less than the
+        residual). With s near 1 the residual understates the distance to the fixed
+        point by 1/(1 - s) (for an affine map x* - x = (g(x) - x)/(1 - s) exactly), so
+        this is what makes "converged" mean "within tolerance of the answer".
+        ``"residual"``: the largest scaled residual itself (the rule of most codes,
+        e.g. polykin's ``fixpoint_wegstein``).
+    adaptive_bounds
+        Let a Wegstein run widen the q bounds for itself when a variable's q = s/(s-1)
+        lies outside them and two successive slope estimates agree (see
+        :mod:`convergence.adaptive`). The widened bounds are used by that run only
+        (this object is not changed), each widening is recorded as a "settings
+        changed" event, and a change of the q bounds made during the run replaces
+        them.
+    dominant_slope
+        In a Wegstein run in ``"bounded"`` q mode, a variable whose own q changed by
+        more than 20 % since the last step (it is driven by other variables of its
+        tear) takes q from its tear's dominant slope instead (see
+        :mod:`convergence.coupling`).
     divergence_factor, divergence_patience
         A run whose residual stays above ``divergence_factor`` times the best seen for
         ``divergence_patience`` iterations in a row is reported as diverging.
@@ -56,6 +78,9 @@ class SettingsSnapshot:
     q_mode: str = "bounded"
     tolerance: float = 1e-8
     max_iterations: int = 200
+    stop_on: str = "estimated error"
+    adaptive_bounds: bool = True
+    dominant_slope: bool = True
     divergence_factor: float = 1e4
     divergence_patience: int = 5
     version: int = 0
@@ -106,6 +131,11 @@ def _checked(values: dict[str, Any]) -> dict[str, Any]:
         checked[name] = _as_float(name, values[name])
     for name, minimum in _INT_MINIMUMS.items():
         checked[name] = _as_int(name, values[name], minimum)
+    if checked["stop_on"] not in STOP_RULES:
+        raise ConvergenceInputError("stop_on", values["stop_on"], f"one of {list(STOP_RULES)}")
+    for name in ("adaptive_bounds", "dominant_slope"):
+        if not isinstance(checked[name], bool):
+            raise ConvergenceInputError(name, values[name], "True or False")
     if checked["q_mode"] not in Q_MODES:
         raise ConvergenceInputError("q_mode", values["q_mode"], f"one of {list(Q_MODES)}")
     if checked["q_min"] > checked["q_max"]:
@@ -202,5 +232,7 @@ class SolverSettings:
 
     @classmethod
     def from_dict(cls, values: dict[str, Any]) -> SolverSettings:
-        """Settings from :meth:`to_dict` output; missing names take their defaults."""
+        """Settings from :meth:`to_dict` output; missing names take their defaults (so a
+        case file written before ``stop_on``, ``adaptive_bounds`` and ``dominant_slope``
+        existed loads)."""
         return cls(**values)

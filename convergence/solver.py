@@ -19,6 +19,7 @@ from convergence.history import ConvergenceHistory, Event, IterationRecord, QSta
 from convergence.problem import FixedPointProblem, TearLayout
 from convergence.settings import SettingsSnapshot, SolverSettings
 from convergence.steps import BoundedWegstein, DirectSubstitution, Evaluated, Step
+from convergence.stopping import ErrorEstimator
 
 METHODS: dict[str, str] = {
     "direct": "direct substitution",
@@ -40,7 +41,8 @@ class FixedPointResult:
     ``x`` is the last point at which g was evaluated and ``gx`` is g(x) there (for
     status ``"not finite"`` it holds the non-finite values g returned). ``evaluations``
     counts calls of g (flowsheet passes); ``iterations`` counts iterations (one
-    evaluation each).
+    evaluation each). ``largest_residual`` and ``largest_estimated_error`` are the
+    largest scaled residual and estimated error (:mod:`convergence.stopping`) at ``x``.
     """
 
     converged: bool
@@ -54,6 +56,7 @@ class FixedPointResult:
     diagnosis: dict[str, TearDiagnosis] = field(default_factory=dict)
     method: str = "wegstein"
     largest_residual: float = np.nan
+    largest_estimated_error: float = np.nan
 
     @property
     def success(self) -> bool:
@@ -95,9 +98,16 @@ class _DivergenceWatch:
 def _q_stats(layout: TearLayout, step: Step | None, settings: SettingsSnapshot) -> dict:
     if step is None or step.q is None:
         return dict.fromkeys(layout.tears)
-    return QStats.per_tear(
-        layout.tear_slices, step.q, step.q_raw, step.guarded, settings.q_min, settings.q_max
-    )
+    low = settings.q_min if step.q_low is None else step.q_low
+    high = settings.q_max if step.q_high is None else step.q_high
+    return QStats.per_tear(layout.tear_slices, step.q, step.q_raw, step.guarded, low, high)
+
+
+def _q_bounds(step: Step | None) -> tuple[float, float] | None:
+    """The widest bounds of a step with adaptively widened bounds, else None."""
+    if step is None or step.q_low is None:
+        return None
+    return (float(step.q_low.min()), float(step.q_high.max()))
 
 
 def _first_not_finite(values: np.ndarray) -> int | None:
@@ -141,6 +151,7 @@ class _Run:
         self.callback = callback
         self.history = ConvergenceHistory()
         self.watch = _DivergenceWatch(layout)
+        self.errors = ErrorEstimator(layout.tears)
         self.evaluations = 0
 
     def _event(self, iteration: int, kind: str, detail: str) -> None:
@@ -162,18 +173,20 @@ class _Run:
         self.evaluations += 1
         return gx
 
+    def _slopes(self, point: Evaluated) -> dict[str, float | None]:
+        if point.step is None:
+            return dict.fromkeys(self.layout.tears)
+        return self.layout.tear_slopes(point.step, point.g_step, point.scale, point.usable)
+
     def _record(
         self,
         point: Evaluated,
         largest_index: int,
-        scaled: np.ndarray,
+        measures: tuple[np.ndarray, dict[str, float | None], dict[str, float]],
         step: Step | None,
         settings: SettingsSnapshot,
     ) -> IterationRecord:
-        if point.step is None:
-            slopes = dict.fromkeys(self.layout.tears)
-        else:
-            slopes = self.layout.tear_slopes(point.step, point.g_step, point.scale, point.usable)
+        scaled, slopes, estimated_errors = measures
         return IterationRecord(
             iteration=point.iteration,
             evaluations=self.evaluations,
@@ -184,6 +197,8 @@ class _Run:
             slopes=slopes,
             step="none" if step is None else step.kind,
             worst_variable=self.layout.name_of(largest_index),
+            estimated_errors=estimated_errors,
+            q_bounds=_q_bounds(step),
         )
 
     def _finish(
@@ -192,7 +207,7 @@ class _Run:
         message: str,
         point: Evaluated,
         settings: SettingsSnapshot,
-        largest: float = np.nan,
+        largest: tuple[float, float] = (np.nan, np.nan),
     ) -> FixedPointResult:
         """Clear the stop request, record the end as an event, build the result."""
         self.settings.clear_stop()
@@ -209,7 +224,8 @@ class _Run:
             history=self.history,
             diagnosis=diagnose_tears(self.history, settings, self.layout.tears),
             method=self.method,
-            largest_residual=float(largest),
+            largest_residual=float(largest[0]),
+            largest_estimated_error=float(largest[1]),
         )
 
     def execute(self) -> FixedPointResult:
@@ -227,15 +243,17 @@ class _Run:
                 return self._finish(status, message, point, settings, largest)
             if step.note:
                 self._event(iteration, "restart", step.note)
+            if step.bounds_note:
+                self._event(iteration, "settings changed", step.bounds_note)
             x_previous, gx_previous, x = x, gx, step.x_new
 
     def _iterate(
         self, point: Evaluated, settings: SettingsSnapshot
-    ) -> tuple[tuple[str, str, float] | None, Step | None]:
+    ) -> tuple[tuple[str, str, tuple[float, float]] | None, Step | None]:
         """Test, step, record and call back for one evaluated point.
 
-        Returns ``((status, message, largest residual), None)`` when the run ends here,
-        else ``(None, step)``.
+        Returns ``((status, message, (largest residual, largest estimated error)),
+        None)`` when the run ends here, else ``(None, step)``.
         """
         bad = _first_not_finite(point.gx)
         if bad is not None:
@@ -243,26 +261,29 @@ class _Run:
                 f"g returned {point.gx[bad]} for {self.layout.describe(bad)} at iteration "
                 f"{point.iteration}"
             )
-            return ("not finite", message, np.nan), None
+            return ("not finite", message, (np.nan, np.nan)), None
         scaled = np.abs(point.fx) / point.scale
         worst = int(np.argmax(scaled))
         largest = float(scaled[worst])
-        converged = largest <= settings.tolerance
+        slopes = self._slopes(point)
+        self.errors.observe(slopes)
+        estimated_errors = self.errors.estimated_errors(self.layout.per_tear_max(scaled))
+        largest_error = max(estimated_errors.values())
+        measured = largest if settings.stop_on == "residual" else largest_error
+        converged = measured <= settings.tolerance
         diverging = not converged and self.watch.diverging(point, largest, settings)
         step = None
         if not (converged or diverging or point.iteration >= settings.max_iterations):
             step = self.rule.next_point(point, settings)
-        record = self._record(point, worst, scaled, step, settings)
+        record = self._record(point, worst, (scaled, slopes, estimated_errors), step, settings)
         self.history.records.append(record)
         stop_asked = self.callback is not None and self.callback(record) is True
         where = f"{largest:.3g} in {self.layout.describe(worst)}"
+        if settings.stop_on == "estimated error":
+            where += f", largest estimated error {largest_error:.3g}"
+        figures = (largest, largest_error)
         if converged:
-            message = (
-                f"converged in {point.iteration} iterations ({self.evaluations} evaluations "
-                f"of g): largest scaled residual {largest:.3g} <= tolerance "
-                f"{settings.tolerance:g}"
-            )
-            return ("converged", message, largest), None
+            return ("converged", self._converged_message(point, figures, settings), figures), None
         if diverging:
             message = (
                 f"diverging: for {settings.divergence_patience} iterations the residual "
@@ -270,27 +291,41 @@ class _Run:
                 f"({self.watch.best_residual:.3g} at iteration {self.watch.best_iteration}); "
                 f"largest scaled residual now {where}"
             )
-            return ("diverging", message, largest), None
+            return ("diverging", message, figures), None
         if stop_asked or self.settings.stop_requested:
             by = "the callback" if stop_asked else "a stop request"
             message = (
                 f"stopped by {by} at iteration {point.iteration}: largest scaled residual {where}"
             )
-            return ("stopped", message, largest), None
+            return ("stopped", message, figures), None
         if step is None:
             message = (
                 f"not converged after {point.iteration} iterations (the limit): largest "
                 f"scaled residual {where} > tolerance {settings.tolerance:g}"
             )
-            return ("not converged", message, largest), None
+            return ("not converged", message, figures), None
         bad = _first_not_finite(step.x_new)
         if bad is not None:
             message = (
                 f"the {step.kind} step gave {step.x_new[bad]} for {self.layout.describe(bad)} "
                 f"at iteration {point.iteration}"
             )
-            return ("not finite", message, largest), None
+            return ("not finite", message, figures), None
         return None, step
+
+    def _converged_message(
+        self, point: Evaluated, figures: tuple[float, float], settings: SettingsSnapshot
+    ) -> str:
+        largest, largest_error = figures
+        head = f"converged in {point.iteration} iterations ({self.evaluations} evaluations of g): "
+        if settings.stop_on == "residual":
+            return head + (
+                f"largest scaled residual {largest:.3g} <= tolerance {settings.tolerance:g}"
+            )
+        return head + (
+            f"largest estimated error {largest_error:.3g} <= tolerance "
+            f"{settings.tolerance:g} (largest scaled residual {largest:.3g})"
+        )
 
 
 def solve_fixed_point(
@@ -302,7 +337,9 @@ def solve_fixed_point(
     """Solve x = g(x) by direct substitution, bounded Wegstein or quasi-Newton (Broyden).
 
     Each iteration evaluates g once at the current iterate, records the per-tear scaled
-    residuals, checks the stopping rules, and takes a step by the chosen method. The
+    residuals and estimated errors, checks the stopping rules (``settings.stop_on``: by
+    default the estimated error residual / |1 - slope| must reach the tolerance, see
+    :mod:`convergence.stopping`), and takes a step by the chosen method. The
     settings are read afresh (as a frozen snapshot) at the start of every iteration, so
     a change made from another thread or from the callback takes effect at the next
     iteration and is recorded as an event. A stop request (``settings.request_stop()``

@@ -10,6 +10,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from convergence.adaptive import BoundsAdapter
+from convergence.coupling import DominantSlopeQ
 from convergence.problem import TearLayout
 from convergence.settings import SettingsSnapshot
 
@@ -20,7 +22,10 @@ class Step:
 
     ``q``, ``q_raw`` and ``guarded`` are per-variable arrays for an accelerated step
     (``q_raw`` = s/(s-1) before clipping; ``guarded`` marks variables whose step was too
-    small for a slope) and ``None`` otherwise. ``note`` is an event worth recording.
+    small for a slope) and ``None`` otherwise. ``note`` is an event worth recording
+    (a restart); ``bounds_note`` says how adaptive bounds widened at this step, and
+    ``q_low``/``q_high`` are the per-variable bounds q was clipped to (``None``: the
+    settings' bounds).
     """
 
     x_new: np.ndarray
@@ -29,6 +34,9 @@ class Step:
     q_raw: np.ndarray | None = None
     guarded: np.ndarray | None = None
     note: str | None = None
+    bounds_note: str | None = None
+    q_low: np.ndarray | None = None
+    q_high: np.ndarray | None = None
 
 
 @dataclass
@@ -91,29 +99,57 @@ class BoundedWegstein:
     slope; it takes s = 0, i.e. q = 0 (direct substitution) clipped into the bounds,
     which is safe whatever the last q was. In ``"held"`` mode q is estimated per
     variable at the first accelerated step (from the direct-substitution steps before
-    it) and held; a change of bounds re-clips the held estimate.
+    it) and held; a change of bounds re-clips the held estimate. With
+    ``dominant_slope`` (in ``"bounded"`` mode; a held q stays each variable's own) a
+    variable whose own slope is not steady takes q from its tear's dominant slope
+    (:mod:`convergence.coupling`); with ``adaptive_bounds`` a
+    :class:`~convergence.adaptive.BoundsAdapter` may widen a variable's bounds for the
+    rest of the run. Both learn from direct-substitution steps too.
     """
 
     def __init__(self, layout: TearLayout) -> None:
         self.layout = layout
         self.held_q_raw: np.ndarray | None = None
         self.held_guarded: np.ndarray | None = None
+        self.adapter = BoundsAdapter(layout.size)
+        self.coupling = DominantSlopeQ(layout)
 
     def next_point(self, point: Evaluated, settings: SettingsSnapshot) -> Step:
         """Direct substitution or an accelerated step, as the settings say."""
         if settings.q_mode != "held":
             self.held_q_raw = None
-        if point.step is None or not accelerates(point.iteration, settings):
+        if point.step is None:
+            return Step(x_new=point.gx, kind="direct")
+        use_dominant = settings.dominant_slope and settings.q_mode == "bounded"
+        latest_q = self.coupling.q(point, self._latest_q(point), use_dominant)
+        if not accelerates(point.iteration, settings):
+            self.adapter.observe(latest_q, point.fx, point.scale)
             return Step(x_new=point.gx, kind="direct")
         if settings.q_mode == "held" and self.held_q_raw is not None:
             q_raw, guarded = self.held_q_raw, self.held_guarded
         else:
-            q_raw, guarded = self._latest_q(point)
+            q_raw, guarded = latest_q, ~point.usable
             if settings.q_mode == "held":
                 self.held_q_raw, self.held_guarded = q_raw, guarded
-        q = np.clip(q_raw, settings.q_min, settings.q_max)
+        low, high, bounds_note = self.adapter.bounds(
+            q_raw, guarded, settings, point.fx, point.scale
+        )
+        if self.adapter.widened:
+            q = np.clip(q_raw, low, high)
+        else:
+            low = high = None
+            q = np.clip(q_raw, settings.q_min, settings.q_max)
         x_new = point.x + (1.0 - q) * point.fx
-        return Step(x_new=x_new, kind="accelerated", q=q, q_raw=q_raw, guarded=guarded)
+        return Step(
+            x_new=x_new,
+            kind="accelerated",
+            q=q,
+            q_raw=q_raw,
+            guarded=guarded,
+            bounds_note=bounds_note,
+            q_low=None if low is None else low.copy(),
+            q_high=None if high is None else high.copy(),
+        )
 
-    def _latest_q(self, point: Evaluated) -> tuple[np.ndarray, np.ndarray]:
-        return wegstein_q(point.g_step, point.step, point.usable), ~point.usable
+    def _latest_q(self, point: Evaluated) -> np.ndarray:
+        return wegstein_q(point.g_step, point.step, point.usable)

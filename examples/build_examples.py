@@ -65,12 +65,12 @@ def ammonia_synthesis_loop() -> Case:
         P=_quantity(150, "barg"),
         phase="vapor",
     )
-    _block(sheet, "Mixer", "Loop mixer", (160, 0), phase="vapor")
+    _block(sheet, "Mixer", "Loop mixer", (256, 0), phase="vapor")
     _block(
         sheet,
         "Reactor",
         "Converter",
-        (320, 0),
+        (512, 0),
         mode="outlet temperature",
         T=_quantity(450, "degC"),
         phase="vapor",
@@ -87,7 +87,7 @@ def ammonia_synthesis_loop() -> Case:
         sheet,
         "Heater",
         "Loop cooler",
-        (480, 0),
+        (768, 0),
         mode="outlet temperature",
         T=_quantity(-10, "degC"),
         phase="vapor",
@@ -96,16 +96,21 @@ def ammonia_synthesis_loop() -> Case:
         sheet,
         "Separator",
         "Ammonia separator",
-        (640, 0),
+        (1024, 0),
         split=ComponentAmounts({"ammonia": 0.95}, "fraction to first outlet"),
         phase1="liquid",
         phase2="vapor",
     )
     _block(
-        sheet, "Splitter", "Purge splitter", (640, -160), mode="fractions", fractions={"out2": 0.02}
+        sheet,
+        "Splitter",
+        "Purge splitter",
+        (1024, -200),
+        mode="fractions",
+        fractions={"out2": 0.02},
     )
-    _block(sheet, "Product", "Liquid ammonia", (800, 0))
-    _block(sheet, "Product", "Purge gas", (800, -160))
+    _block(sheet, "Product", "Liquid ammonia", (1280, 0))
+    _block(sheet, "Product", "Purge gas", (1280, -200))
     _connect(sheet, "Make-up", "Make-up gas.out", "Loop mixer.in1")
     _connect(sheet, "Converter feed", "Loop mixer.out", "Converter.in")
     _connect(sheet, "Converter effluent", "Converter.out", "Loop cooler.in")
@@ -155,7 +160,7 @@ def shift_with_feed_effluent_exchanger() -> Case:
         sheet,
         "Exchanger",
         "Feed-effluent exchanger",
-        (160, 0),
+        (256, 0),
         mode="hot outlet temperature",
         hot_T=_quantity(300, "degC"),
         hot_phase="vapor",
@@ -168,7 +173,7 @@ def shift_with_feed_effluent_exchanger() -> Case:
         sheet,
         "Reactor",
         "Shift converter",
-        (320, 0),
+        (512, 0),
         mode="adiabatic",
         phase="vapor",
         pressure_drop=_quantity(0.5, "bar"),
@@ -182,10 +187,10 @@ def shift_with_feed_effluent_exchanger() -> Case:
         ],
     )
     _block(
-        sheet, "Splitter", "Bypass splitter", (480, 0), mode="fractions", fractions={"out2": 0.3}
+        sheet, "Splitter", "Bypass splitter", (768, 0), mode="fractions", fractions={"out2": 0.3}
     )
-    _block(sheet, "Mixer", "Bypass mixer", (320, 160), phase="vapor")
-    _block(sheet, "Product", "Shifted gas", (480, 160))
+    _block(sheet, "Mixer", "Bypass mixer", (512, 200), phase="vapor")
+    _block(sheet, "Product", "Shifted gas", (768, 200))
     _connect(sheet, "Raw gas", "Raw gas.out", "Feed-effluent exchanger.cold_in")
     _connect(sheet, "Preheated gas", "Feed-effluent exchanger.cold_out", "Shift converter.in")
     _connect(sheet, "Shift effluent", "Shift converter.out", "Bypass splitter.in")
@@ -223,28 +228,28 @@ def hydration_with_two_recycles() -> Case:
         sheet,
         "Feed",
         "Make-up water",
-        (0, 320),
+        (0, 400),
         flows=ComponentAmounts({"water": 150.0}, "kmol/h"),
         T=_quantity(25, "degC"),
         P=_quantity(75, "bar"),
         phase="liquid",
     )
-    _block(sheet, "Mixer", "Water mixer", (160, 320), phase="liquid", P=_quantity(75, "bar"))
+    _block(sheet, "Mixer", "Water mixer", (256, 400), phase="liquid", P=_quantity(75, "bar"))
     _block(
         sheet,
         "Heater",
         "Vaporizer",
-        (320, 320),
+        (512, 400),
         mode="outlet temperature",
         T=_quantity(300, "degC"),
         phase="vapor",
     )
-    _block(sheet, "Mixer", "Reactor mixer", (160, 0), phase="vapor", P=_quantity(70, "bar"))
+    _block(sheet, "Mixer", "Reactor mixer", (256, 0), phase="vapor", P=_quantity(70, "bar"))
     _block(
         sheet,
         "Heater",
         "Preheater",
-        (320, 0),
+        (512, 0),
         mode="outlet temperature",
         T=_quantity(300, "degC"),
         phase="vapor",
@@ -253,7 +258,7 @@ def hydration_with_two_recycles() -> Case:
         sheet,
         "Reactor",
         "Hydration reactor",
-        (480, 0),
+        (768, 0),
         mode="outlet temperature",
         T=_quantity(300, "degC"),
         phase="vapor",
@@ -268,7 +273,7 @@ def hydration_with_two_recycles() -> Case:
         sheet,
         "Separator",
         "Flash drum",
-        (640, 0),
+        (1024, 0),
         split=ComponentAmounts({"water": 0.995, "ethanol": 0.97}, "fraction to first outlet"),
         T1=_quantity(40, "degC"),
         phase1="liquid",
@@ -279,7 +284,7 @@ def hydration_with_two_recycles() -> Case:
         sheet,
         "Separator",
         "Ethanol column",
-        (640, 320),
+        (1024, 400),
         split=ComponentAmounts({"ethanol": 0.99, "water": 0.1}, "fraction to first outlet"),
         T1=_quantity(80, "degC"),
         P1=_quantity(1.5, "bar"),
@@ -288,7 +293,7 @@ def hydration_with_two_recycles() -> Case:
         P2=_quantity(1.5, "bar"),
         phase2="liquid",
     )
-    _block(sheet, "Product", "Crude ethanol", (800, 320))
+    _block(sheet, "Product", "Crude ethanol", (1280, 400))
     _connect(sheet, "Ethylene", "Ethylene feed.out", "Reactor mixer.in1")
     _connect(sheet, "Make-up water", "Make-up water.out", "Water mixer.in1")
     _connect(sheet, "Water to vaporizer", "Water mixer.out", "Vaporizer.in")

@@ -4,8 +4,10 @@ The results are the last solution (``FlowsheetSolution.to_dict``). Before rebuil
 them, the parts that the window and the reports read directly are checked: the
 component list must be the case's, every stream and block named must exist, and each
 stream state must hold one finite flow per component, a temperature and pressure above
-zero and a known phase. Anything else that ``FlowsheetSolution.from_dict`` refuses is
-reported at ``results``.
+zero and a known phase; the convergence result's ``x`` and ``gx`` must be arrays of
+equal length whose items are numbers of ordinary size or null (a non-finite value, as
+``FlowsheetSolution.to_dict`` writes it). Anything else that
+``FlowsheetSolution.from_dict`` refuses is reported at ``results``.
 """
 
 from __future__ import annotations
@@ -13,7 +15,7 @@ from __future__ import annotations
 from typing import Any
 
 from model.block_kinds import PHASES
-from model.case_schema import Problems, join
+from model.case_schema import MISSING, Problems, join
 from model.flowsheet import Flowsheet
 
 
@@ -45,6 +47,7 @@ def read_results(problems: Problems, value: Any, flowsheet: Flowsheet) -> Any:
     for name in blocks or {}:
         if name not in flowsheet.blocks:
             problems.add(join("results.blocks", name), name, "the name of a block of this case")
+    _check_convergence(problems, data.get("convergence"))
     if len(problems) != count:
         return None
     try:
@@ -72,3 +75,28 @@ def _check_state(problems: Problems, path: str, state: Any, component_count: int
         problems.number(join(path, "P_Pa"), data["P_Pa"], positive=True)
     if "phase" in data:
         problems.choice(join(path, "phase"), data["phase"], PHASES)
+
+
+def _check_convergence(problems: Problems, value: Any) -> None:
+    """``x`` and ``gx`` of the stored convergence result: equal-length number arrays."""
+    if value is None:
+        return
+    data = problems.object("results.convergence", value, required=("x", "gx"))
+    if data is None:
+        return
+    lengths = []
+    for key in ("x", "gx"):
+        path = join("results.convergence", key)
+        items = problems.array(path, data.get(key, MISSING))
+        if items is None:
+            continue
+        lengths.append(len(items))
+        for index, item in enumerate(items):
+            if item is not None:
+                problems.number(join(path, index), item)
+    if len(lengths) == 2 and lengths[0] != lengths[1]:
+        problems.add(
+            "results.convergence.gx",
+            f"{lengths[1]} values",
+            f"as many values as results.convergence.x ({lengths[0]})",
+        )

@@ -6,6 +6,9 @@ cautions (or, with ``--json``, one JSON object). With ``--second-opinion`` it th
 solves the flowsheet again with every stream at once (:mod:`model.second_opinion`) and
 prints the largest relative difference from the sequential answer (in JSON:
 ``"second_opinion": {"agrees", "largest_relative_difference", "message"}``).
+``--stop-on`` chooses the stopping rule ("estimated error" or "residual") and
+``--fixed-bounds`` keeps q within the given bounds (no adaptive widening); see
+:class:`convergence.SolverSettings`.
 ``export CASE --csv FILE`` solves the case and writes its stream table as CSV. Exit
 status: 0 converged, 1 not converged, 2 bad input or a bad file (the message goes to
 standard error); the second opinion does not change it.
@@ -26,6 +29,7 @@ import sys
 from typing import Any
 
 from convergence import METHODS
+from convergence.settings import STOP_RULES
 from model.case import Case
 from model.case_file import load_case
 from model.errors import LoopwrightError
@@ -52,6 +56,19 @@ def build_parser() -> argparse.ArgumentParser:
     solve.add_argument("--method", choices=list(METHODS), help="convergence method")
     solve.add_argument("--q-min", type=float, dest="q_min", help="lower bound of Wegstein's q")
     solve.add_argument("--q-max", type=float, dest="q_max", help="upper bound of Wegstein's q")
+    solve.add_argument(
+        "--stop-on",
+        choices=list(STOP_RULES),
+        dest="stop_on",
+        help="what must fall to the tolerance: 'estimated error' (residual / |1 - slope|, "
+        "the default) or 'residual' (the largest scaled residual alone)",
+    )
+    solve.add_argument(
+        "--fixed-bounds",
+        action="store_true",
+        dest="fixed_bounds",
+        help="keep Wegstein's q within --q-min/--q-max (a run does not widen them itself)",
+    )
     solve.add_argument("--json", action="store_true", help="print one JSON object")
     solve.add_argument(
         "--second-opinion",
@@ -136,13 +153,15 @@ def _prepared_case(args: argparse.Namespace) -> Case:
         case.unit_system = args.units
     if getattr(args, "method", None) is not None:
         case.method = args.method
-    bounds = {
+    changes = {
         name: value
-        for name in ("q_min", "q_max")
+        for name in ("q_min", "q_max", "stop_on")
         if (value := getattr(args, name, None)) is not None
     }
-    if bounds:
-        case.settings.update(**bounds)
+    if getattr(args, "fixed_bounds", False):
+        changes["adaptive_bounds"] = False
+    if changes:
+        case.settings.update(**changes)
     return case
 
 

@@ -95,9 +95,21 @@ def _number(value: Any) -> float:
     return math.nan if value is None else float(value)
 
 
+def _numbers(values: Any) -> np.ndarray:
+    """A float array from a stored list; None (a non-finite value) comes back as NaN."""
+    if not isinstance(values, list):
+        raise TypeError(f"a list of numbers is needed, not {type(values).__name__}")
+    return np.array([_number(v) for v in values], dtype=float)
+
+
 def convergence_to_dict(result: FixedPointResult) -> dict[str, Any]:
-    """The convergence result as its history dict plus the summary fields."""
-    return {
+    """The convergence result as its history dict plus the summary fields.
+
+    Non-finite numbers (e.g. ``gx`` of a "not finite" run) are stored as None (JSON
+    null), so the case file stays strict JSON. ``largest_estimated_error`` is stored
+    when the result has it.
+    """
+    data = {
         "converged": result.converged,
         "status": result.status,
         "message": result.message,
@@ -105,11 +117,15 @@ def convergence_to_dict(result: FixedPointResult) -> dict[str, Any]:
         "iterations": result.iterations,
         "evaluations": result.evaluations,
         "largest_residual": _plain(float(result.largest_residual)),
-        "x": result.x.tolist(),
-        "gx": result.gx.tolist(),
+        "x": _plain(result.x.tolist()),
+        "gx": _plain(result.gx.tolist()),
         "history": result.history.to_dict(),
         "diagnosis": {tear: _plain(dataclasses.asdict(d)) for tear, d in result.diagnosis.items()},
     }
+    estimated_error = getattr(result, "largest_estimated_error", None)
+    if estimated_error is not None:
+        data["largest_estimated_error"] = _plain(float(estimated_error))
+    return data
 
 
 def _diagnosis_from_dict(data: dict[str, Any]) -> TearDiagnosis:
@@ -124,19 +140,21 @@ def _diagnosis_from_dict(data: dict[str, Any]) -> TearDiagnosis:
 
 
 def convergence_from_dict(data: dict[str, Any]) -> FixedPointResult:
-    """Inverse of :func:`convergence_to_dict`."""
+    """Inverse of :func:`convergence_to_dict` (files without ``largest_estimated_error``
+    load with it NaN)."""
     return FixedPointResult(
         converged=bool(data["converged"]),
         status=str(data["status"]),
         message=str(data["message"]),
-        x=np.array(data["x"], dtype=float),
-        gx=np.array(data["gx"], dtype=float),
+        x=_numbers(data["x"]),
+        gx=_numbers(data["gx"]),
         iterations=int(data["iterations"]),
         evaluations=int(data["evaluations"]),
         history=ConvergenceHistory.from_dict(data["history"]),
         diagnosis={t: _diagnosis_from_dict(d) for t, d in data.get("diagnosis", {}).items()},
         method=str(data.get("method", "wegstein")),
         largest_residual=_number(data.get("largest_residual")),
+        largest_estimated_error=_number(data.get("largest_estimated_error")),
     )
 
 

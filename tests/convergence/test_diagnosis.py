@@ -51,7 +51,8 @@ def test_oscillating_tear_blocked_by_q_max():
 
 def test_monotonic_tear_blocked_by_q_min():
     # Slope 0.98: q = 0.98/(0.98 - 1) = -49; q_min = -5 stops it (WALKTHROUGH.md).
-    settings = SolverSettings(max_iterations=30)
+    # Fixed bounds: the run must stay blocked (adaptive bounds would widen them).
+    settings = SolverSettings(max_iterations=30, adaptive_bounds=False)
     result = solve_fixed_point(_linear_tears({"S2": 0.98}), "wegstein", settings)
     diagnosis = result.diagnosis["S2"]
     assert diagnosis.pattern == "monotonic" and diagnosis.converging
@@ -69,7 +70,8 @@ def test_monotonic_tear_blocked_by_q_min():
 def test_following_the_advice_converges_a_diverging_tear():
     # Slope -1.5: direct substitution diverges (|s| > 1); q = 0.6 would fix it.
     problem = _linear_tears({"S4": -1.5, "S5": 0.5})
-    first = solve_fixed_point(problem, "wegstein", SolverSettings())
+    # At the fixed default bounds (adaptive bounds would find q = 0.6 by themselves).
+    first = solve_fixed_point(problem, "wegstein", SolverSettings(adaptive_bounds=False))
     assert first.status == "diverging"
     diagnosis = first.diagnosis["S4"]
     assert not diagnosis.converging and diagnosis.pattern == "oscillating"

@@ -11,7 +11,10 @@ from tests.convergence.problems import coupled_problem
 
 
 def _run_with_a_settings_change():
-    settings = SolverSettings(direct_steps=2, acceleration_interval=2, tolerance=1e-12)
+    # Fixed bounds: the one settings change is the callback's (no adaptive widening).
+    settings = SolverSettings(
+        direct_steps=2, acceleration_interval=2, tolerance=1e-12, adaptive_bounds=False
+    )
 
     def callback(record):
         if record.iteration == 5:

@@ -40,7 +40,8 @@ def _pausing_at(evaluation: int, action):
 
 
 def test_stop_from_another_thread_ends_within_one_evaluation():
-    settings = SolverSettings(tolerance=1e-14)
+    # Fixed bounds, so that the stop is the run's only event.
+    settings = SolverSettings(tolerance=1e-14, adaptive_bounds=False)
     g, thread, calls = _pausing_at(5, settings.request_stop)
     thread.start()
     result = solve_fixed_point(_cosine_problem(g), "wegstein", settings)
@@ -74,7 +75,8 @@ def test_stop_requested_before_the_run_stops_after_the_first_evaluation():
 
 
 def test_settings_change_from_another_thread_applies_at_next_iteration():
-    settings = SolverSettings(q_max=0.0, direct_steps=1, tolerance=1e-12)
+    # Fixed bounds: only the other thread's change may lift q_max.
+    settings = SolverSettings(q_max=0.0, direct_steps=1, tolerance=1e-12, adaptive_bounds=False)
     g, thread, _ = _pausing_at(4, lambda: settings.update(q_max=0.9))
     thread.start()
     result = solve_fixed_point(_cosine_problem(g), "wegstein", settings)
@@ -95,7 +97,8 @@ def test_settings_change_from_another_thread_applies_at_next_iteration():
 
 
 def test_settings_change_from_callback_applies_at_next_iteration():
-    settings = SolverSettings(tolerance=1e-12)
+    # Fixed bounds, so that the first "settings changed" event is the callback's.
+    settings = SolverSettings(tolerance=1e-12, adaptive_bounds=False)
 
     def callback(record):
         if record.iteration == 3:

@@ -13,7 +13,11 @@ citing Wegstein 1958, CACM 1(6)). Its iteration was matched to ours by reading i
   we pass ``step_guard = eps``;
 - both evaluate g once per iteration starting at x0, count an iteration per evaluation,
   update x + (1 - q)(g(x) - x), and return the last evaluated iterate (maxiter ->
-  max_iterations).
+  max_iterations);
+- polykin stops on the residual, keeps its q bounds fixed and takes every variable's q
+  from its own slope: we set ``stop_on="residual"``, ``adaptive_bounds=False`` and
+  ``dominant_slope=False`` (our defaults since issue 7 stop on the estimated error, let
+  a run widen its bounds, and give coupled variables their tear's dominant slope).
 With that, the iterates must be bit-for-bit identical, not merely close.
 """
 
@@ -56,7 +60,14 @@ def _both(g, x0, *, wait=1, qmin=-5.0, qmax=0.0, tolx=1e-6, maxiter=50):
         step_guard=EPS,
     )
     settings = SolverSettings(
-        direct_steps=wait, q_min=qmin, q_max=qmax, tolerance=tolx, max_iterations=maxiter
+        direct_steps=wait,
+        q_min=qmin,
+        q_max=qmax,
+        tolerance=tolx,
+        max_iterations=maxiter,
+        stop_on="residual",
+        adaptive_bounds=False,
+        dominant_slope=False,
     )
     ours = solve_fixed_point(problem, "wegstein", settings)
     return reference, polykin_points, ours, our_points

@@ -13,6 +13,7 @@ import json
 from pathlib import Path
 from typing import Any
 
+import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
@@ -196,3 +197,39 @@ def test_every_key_removed_in_turn(index: int) -> None:
         document = json.loads(BASE_TEXTS[index])
         _mutate(document, path, "remove", None)
         _check_outcome(json.dumps(document))
+
+
+def test_results_with_convergence_x_null_are_refused_naming_the_json_path() -> None:
+    """Found by the fuzz test: ``"x": null`` loaded as a NaN scalar that could not be saved."""
+    document = json.loads(BASE_TEXTS[-1])
+    document["results"]["convergence"]["x"] = None
+    with pytest.raises(CaseFileError) as caught:
+        case_from_json(json.dumps(document), "fuzzed.loop.json")
+    paths = [problem.path for problem in caught.value.problems]
+    assert "results.convergence.x" in paths
+    _check_outcome(json.dumps(document))
+
+
+def test_results_with_a_null_item_in_convergence_gx_load_and_save() -> None:
+    """A non-finite g(x) value is stored as null; such a file loads, saves and reopens."""
+    document = json.loads(BASE_TEXTS[-1])
+    document["results"]["convergence"]["gx"][0] = None
+    case = case_from_json(json.dumps(document), "fuzzed.loop.json")
+    assert np.isnan(case.solution.convergence.gx[0])
+    saved = case_to_json(case)
+    assert json.loads(saved)["results"]["convergence"]["gx"][0] is None
+    assert case_to_json(case_from_json(saved)) == saved
+
+
+def test_results_keep_the_largest_estimated_error_and_old_files_load_without_it() -> None:
+    document = json.loads(BASE_TEXTS[-1])
+    stored = document["results"]["convergence"]["largest_estimated_error"]
+    # The solver's own summary, written next to the residual it bounds from above.
+    assert stored >= document["results"]["convergence"]["largest_residual"]
+    case = case_from_json(json.dumps(document), "fuzzed.loop.json")
+    assert case.solution.convergence.largest_estimated_error == stored
+    del document["results"]["convergence"]["largest_estimated_error"]
+    old = case_from_json(json.dumps(document), "fuzzed.loop.json")
+    assert np.isnan(old.solution.convergence.largest_estimated_error)
+    resaved = json.loads(case_to_json(old))["results"]["convergence"]
+    assert resaved.get("largest_estimated_error") is None  # NaN is stored as null

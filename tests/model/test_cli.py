@@ -75,19 +75,38 @@ def test_solve_json_holds_the_agreed_keys_and_the_solved_numbers(capsys) -> None
 
 
 def test_method_and_q_bounds_from_the_command_line(capsys) -> None:
-    _, out, _ = _run(capsys, "solve", str(AMMONIA), "--json", "--q-min", "-5")
+    # Fixed bounds and the residual rule: the old behaviour, where q >= -5 holds the
+    # argon loop (slope 0.98, q = 0.98/(0.98-1) = -49) back and it crawls.
+    fixed = ["--fixed-bounds", "--stop-on", "residual"]
+    _, out, _ = _run(capsys, "solve", str(AMMONIA), "--json", "--q-min", "-5", *fixed)
     slow = json.loads(out)
     assert slow["converged"] and slow["iterations"] > 10 * 6  # the argon loop crawls
-    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--json", "--method", "direct")
+    _, out, _ = _run(capsys, "solve", str(AMMONIA), "--json", "--q-min", "-5")
+    adaptive = json.loads(out)  # the run widens the bounds itself
+    assert adaptive["converged"] and adaptive["iterations"] < slow["iterations"]
+    # Direct substitution crawls too (slope near 1); under the residual rule it gets
+    # there within the iteration limit, later than Wegstein.
+    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--json", "--method", "direct", *fixed)
     direct = json.loads(out)
-    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--json")
+    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--json", *fixed)
     wegstein = json.loads(out)
     assert direct["converged"] and direct["iterations"] > wegstein["iterations"]
 
 
+def test_solve_help_names_the_stopping_rule_and_fixed_bounds_options(capsys) -> None:
+    status, out, _ = _run(capsys, "solve", "--help")
+    assert status == 0
+    assert "--stop-on" in out and "estimated error" in out and "residual" in out
+    assert "--fixed-bounds" in out
+
+
 def test_not_converged_exits_with_1(capsys, tmp_path: Path) -> None:
     path = _modified_copy(
-        tmp_path, AMMONIA, lambda d: d["solver_settings"].update(q_min=-5.0, max_iterations=20)
+        tmp_path,
+        AMMONIA,
+        lambda d: d["solver_settings"].update(
+            q_min=-5.0, max_iterations=20, adaptive_bounds=False, stop_on="residual"
+        ),
     )
     status, out, _ = _run(capsys, "solve", str(path), "--json")
     assert status == 1
@@ -188,7 +207,11 @@ def test_launcher_dispatches_headless_commands_without_qt() -> None:
 
 def test_export_of_an_unconverged_case_says_so_and_exits_with_1(capsys, tmp_path) -> None:
     path = _modified_copy(
-        tmp_path, AMMONIA, lambda d: d["solver_settings"].update(q_min=-5.0, max_iterations=20)
+        tmp_path,
+        AMMONIA,
+        lambda d: d["solver_settings"].update(
+            q_min=-5.0, max_iterations=20, adaptive_bounds=False, stop_on="residual"
+        ),
     )
     target = tmp_path / "table.csv"
     status, _, _ = _run(capsys, "export", str(path), "--csv", str(target))

@@ -63,14 +63,17 @@ def test_without_the_flag_there_is_no_second_opinion(capsys) -> None:
 def test_a_loosely_converged_loop_shows_its_error_and_a_tighter_solve_agrees(
     capsys, tmp_path
 ) -> None:
-    # The hydration loops converge to a scaled tear residual of 1e-8 as saved; their error
-    # is larger by about 1 / (1 - loop gain) (Wegstein 1958), so the 1e-8 check fails and
-    # says why; at tolerance 1e-12 the answers agree.
-    status, out, _ = _run(capsys, "solve", str(HYDRATION), "--json", "--second-opinion")
+    # With fixed q bounds and the residual rule, the hydration loops converge to a scaled
+    # tear residual of 1e-8; their error is larger by about 1 / (1 - loop gain) (Wegstein
+    # 1958), so the 1e-8 check fails and says why; at tolerance 1e-12 the answers agree.
+    residual_rule = ["--stop-on", "residual", "--fixed-bounds"]
+    status, out, _ = _run(
+        capsys, "solve", str(HYDRATION), "--json", "--second-opinion", *residual_rule
+    )
     assert status == 0
     loose = json.loads(out)["second_opinion"]
     assert loose["agrees"] is False and 1e-8 < loose["largest_relative_difference"] < 1e-6
-    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--second-opinion")
+    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--second-opinion", *residual_rule)
     assert "DOES NOT AGREE" in out and "tighten the tolerance" in out
     _, out, _ = _run(
         capsys,
@@ -80,8 +83,14 @@ def test_a_loosely_converged_loop_shows_its_error_and_a_tighter_solve_agrees(
         "--second-opinion",
         "--agreement-tolerance",
         "1e-6",
+        *residual_rule,
     )
     assert json.loads(out)["second_opinion"]["agrees"] is True
+    # The default rule stops on the estimated error residual / |1 - slope|, so at the
+    # saved tolerance 1e-8 the answer already agrees within it.
+    _, out, _ = _run(capsys, "solve", str(HYDRATION), "--json", "--second-opinion")
+    entry = json.loads(out)["second_opinion"]
+    assert entry["agrees"] is True and entry["largest_relative_difference"] <= 1e-8
     tight = _tightened(tmp_path, HYDRATION, tolerance=1e-12)
     _, out, _ = _run(capsys, "solve", str(tight), "--json", "--second-opinion")
     entry = json.loads(out)["second_opinion"]
