@@ -1,4 +1,4 @@
-"""Undoable edits of specifications, components and preferred tears.
+"""Undoable edits of specifications, components, preferred tears and tear estimates.
 
 Each command is a small ``QUndoCommand`` that calls the flowsheet's public methods and
 remembers what it needs to undo. Values are checked by the model before a command is
@@ -7,12 +7,14 @@ pushed (see :func:`push_spec_change`), so a refused value never reaches the undo
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 from PySide6.QtGui import QUndoCommand, QUndoStack
 
 from model.errors import InputError
 from model.flowsheet import Flowsheet
+from model.spec_values import StreamEstimate
 
 
 class SetSpecCommand(QUndoCommand):
@@ -83,6 +85,69 @@ class SetPreferredTearCommand(QUndoCommand):
 
     def undo(self) -> None:
         self._flowsheet.set_preferred_tear(self._stream_name, self._old)
+
+
+class SetEstimateCommand(QUndoCommand):
+    """Set (or clear, with None) a stream's initial estimate for when it is torn."""
+
+    def __init__(
+        self, flowsheet: Flowsheet, stream_name: str, estimate: StreamEstimate | None
+    ) -> None:
+        verb = "Clear" if estimate is None else "Set"
+        super().__init__(f"{verb} the initial estimate of {stream_name}")
+        self._flowsheet = flowsheet
+        self._stream_name = stream_name
+        self._estimate = estimate
+        self._old = flowsheet.stream(stream_name).estimate
+
+    def redo(self) -> None:
+        self._flowsheet.set_estimate(self._stream_name, self._estimate)
+
+    def undo(self) -> None:
+        self._flowsheet.set_estimate(self._stream_name, self._old)
+
+
+def checked_estimate(
+    flowsheet: Flowsheet, stream_name: str, estimate: StreamEstimate | None
+) -> StreamEstimate | None:
+    """``estimate`` if every value is allowed (None for an estimate with nothing in it),
+    else an InputError naming the field, e.g. ``"Recycle gas.estimate.T"``.
+
+    Flows (mol/s) must be finite and not negative, of the case's components; T (K) and
+    P (Pa) finite and above zero.
+    """
+    if estimate is None or (not estimate.flows and estimate.T is None and estimate.P is None):
+        return None
+    prefix = f"{stream_name}.estimate"
+    names = flowsheet.component_names()
+    for component, flow in estimate.flows.items():
+        if component not in names:
+            raise InputError(f"{prefix}.flows", component, f"one of the components {names}")
+        if not (math.isfinite(flow) and flow >= 0.0):
+            raise InputError(f"{prefix}.flows[{component}]", flow, "a flow of 0 or more")
+    for field, value, what in (("T", estimate.T, "temperature"), ("P", estimate.P, "pressure")):
+        if value is not None and not (math.isfinite(value) and value > 0.0):
+            raise InputError(f"{prefix}.{field}", value, f"an absolute {what} above zero")
+    return estimate
+
+
+def push_estimate_change(
+    undo_stack: QUndoStack,
+    flowsheet: Flowsheet,
+    stream_name: str,
+    estimate: StreamEstimate | None,
+) -> str | None:
+    """Check ``estimate`` and, if allowed and different, push a :class:`SetEstimateCommand`.
+
+    Returns the refusal message (nothing pushed), else None.
+    """
+    try:
+        estimate = checked_estimate(flowsheet, stream_name, estimate)
+    except InputError as error:
+        return str(error)
+    if flowsheet.stream(stream_name).estimate != estimate:
+        undo_stack.push(SetEstimateCommand(flowsheet, stream_name, estimate))
+    return None
 
 
 def checked_spec_value(flowsheet: Flowsheet, block_name: str, field: str, value: Any) -> Any:

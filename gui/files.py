@@ -95,10 +95,12 @@ class CaseFiles(QObject):
     def maybe_save(self) -> bool:
         """Ask what to do with unsaved changes; True when the caller may go on.
 
-        Never while a solve runs: the solve is working on this case's flowsheet.
+        Never while a solve or a second opinion runs: it is reading this case's flowsheet.
         """
-        if self._window.solver.is_running():
-            self._window.show_message("Stop the solve before opening or closing a case.")
+        if self._window.is_busy():
+            self._window.show_message(
+                "Stop the solve (or wait for the second opinion) before opening or closing a case."
+            )
             return False
         if not self.is_modified():
             return True

@@ -20,14 +20,27 @@ from gui.diagram.scene import DiagramScene
 from gui.diagram.shelf import BlockShelf
 from gui.diagram.view import DiagramView
 from gui.files import AUTOSAVE_SECONDS, CaseFiles
-from gui.status_line import SOLUTION_STATES, StatusLine, closure_text
+from gui.status_line import StatusLine
 from gui.window_actions import build_actions, fill_recent_menu
+from gui.window_solve import WindowSolveMixin
 from model.case import Case
 
-EDIT_ACTIONS = ("new", "open", "copy", "paste", "delete", "rename", "components")
+
+def default_window_size() -> tuple[int, int]:
+    """1360 x 860 at least; on a larger screen up to 90 % of it (at most 1680 x 1050), so
+    a six-column diagram fits beside the docks at a readable zoom."""
+    from PySide6.QtGui import QGuiApplication
+
+    screen = QGuiApplication.primaryScreen()
+    if screen is None:
+        return 1360, 860
+    available = screen.availableGeometry()
+    width = max(1360, min(1680, int(0.9 * available.width())))
+    height = max(860, min(1050, int(0.9 * available.height())))
+    return width, height
 
 
-class MainWindow(QMainWindow):
+class MainWindow(WindowSolveMixin, QMainWindow):
     """The desktop window around one case."""
 
     def __init__(self, autosave_seconds: float = AUTOSAVE_SECONDS) -> None:
@@ -57,6 +70,8 @@ class MainWindow(QMainWindow):
         self.monitor_page = QWidget()
         self.log = LogPane()
         self.solver = SolveController(self)
+        self.checker = SolveController(self)  # runs the second opinion
+        self.last_second_opinion = None
         self.status = StatusLine(self)
         self.setStatusBar(self.status)
         self.files = CaseFiles(self, autosave_seconds)
@@ -66,7 +81,7 @@ class MainWindow(QMainWindow):
             self.panels_menu.addAction(dock.toggleViewAction())
         self._connect()
         fill_recent_menu(self, self.actions)
-        self.resize(1360, 860)
+        self.resize(*default_window_size())
         self.install_case(self.case)
         self.files.mark_saved()
         QTimer.singleShot(100, self, self._build_monitor)
@@ -79,6 +94,7 @@ class MainWindow(QMainWindow):
 
             monitor = RecycleMonitor()
             monitor.bounds_applied.connect(self._update_title)
+            monitor.controls.settings_changed.connect(self._update_title)
             index = self.result_tabs.indexOf(self.monitor_page)
             self.result_tabs.removeTab(index)
             self.result_tabs.insertTab(index, monitor, "Recycle monitor")
@@ -147,7 +163,8 @@ class MainWindow(QMainWindow):
     def _size_docks(self) -> None:
         horizontal, vertical = Qt.Orientation.Horizontal, Qt.Orientation.Vertical
         self.resizeDocks([self.shelf_dock, self.details_dock], [150, 380], horizontal)
-        self.resizeDocks([self.results_dock], [max(200, self.height() * 3 // 10)], vertical)
+        # the diagrams are wide rather than tall: the results (plots, stream table) take 40 %
+        self.resizeDocks([self.results_dock], [max(200, self.height() * 2 // 5)], vertical)
 
     def _connect(self) -> None:
         self.shelf.kind_activated.connect(self.editor.add_block_at_centre)
@@ -156,10 +173,11 @@ class MainWindow(QMainWindow):
         self.log.block_activated.connect(self.select_block)
         self.log.stream_activated.connect(self.select_stream)
         self.stream_table.stream_activated.connect(self.select_stream)
-        self.solver.started.connect(self._solve_started)
         self.solver.progress.connect(self._solve_progress)
         self.solver.finished.connect(self._solve_finished)
         self.solver.failed.connect(self._solve_failed)
+        self.checker.finished.connect(self._second_opinion_finished)
+        self.checker.failed.connect(self._second_opinion_failed)
         self.undo_stack.indexChanged.connect(self._update_title)
         self.files.changed.connect(self._files_changed)
 
@@ -206,6 +224,7 @@ class MainWindow(QMainWindow):
             self.results_current = False
             self.scene.set_results(self.case.solution, current=False)
             self.status.set_closure("")
+            self.update_solve_actions()
         if not self._state_refresh_pending:
             self._state_refresh_pending = True
             QTimer.singleShot(0, self, self._refresh_idle_state)
@@ -248,7 +267,7 @@ class MainWindow(QMainWindow):
         self._sync_choosers()
         self.scene.set_unit_system(name)
         self.details.set_unit_system(name)
-        self.stream_table.set_solution(self.case.solution, name)
+        self.stream_table.set_solution(self.case.solution, name, list(self.case.flowsheet.streams))
         self._update_title()
 
     def _files_changed(self) -> None:
@@ -259,8 +278,9 @@ class MainWindow(QMainWindow):
         self.setWindowTitle(f"{self.files.display_name()}[*] — Loopwright")
         self.setWindowModified(self.files.is_modified())
 
-    def show_message(self, text: str) -> None:
-        self.status.show_note(text)
+    def show_message(self, text: str, milliseconds: int = 8000) -> None:
+        """A passing note in the status bar."""
+        self.status.show_note(text, milliseconds)
 
     # ---- selection ----------------------------------------------------------------------
     def _selection_changed(self) -> None:
@@ -297,90 +317,6 @@ class MainWindow(QMainWindow):
         from gui.about import AboutDialog
 
         AboutDialog(self).exec()
-
-    # ---- solve -----------------------------------------------------------------------------
-    def start_solve(self) -> None:
-        """Solve the case in the worker thread (F5); editing is off until it ends."""
-        if self.solver.is_running():
-            return
-        self._set_editing(False)
-        self.status.set_state("solving")
-        self.status.set_progress(None, None)
-        self.status.set_closure("")
-        self.scene.set_results(self.case.solution, self.results_current, solving=True)
-        self.log.clear()
-        self.monitor.begin_run()
-        self.solver.start(self.case.flowsheet, self.case.method, self.case.settings)
-
-    def stop_solve(self) -> None:
-        if self.solver.is_running():
-            self.solver.stop()
-            self.show_message("Stopping at the next iteration…")
-
-    def _solve_started(self) -> None:
-        self.actions["stop"].setEnabled(True)
-
-    def _solve_progress(self, record) -> None:
-        residual = max(record.residuals.values()) if record.residuals else None
-        self.status.set_progress(record.iteration, residual)
-        self.monitor.add_record(record)
-
-    def _solve_finished(self, solution) -> None:
-        self.case.solution = solution
-        self._set_editing(True)
-        self.monitor.end_run(solution.convergence)
-        self._show_results(solution, current=True)
-        self.log.set_issues(solution.issues)
-        severity = "info" if solution.converged else "warning"
-        self.log.add_message(severity, f"Solve {solution.status}: {solution.message}")
-        if solution.balance is not None:
-            for line in solution.balance.lines():
-                self.log.add_message("info" if solution.balance.closes else "warning", line)
-        self._update_title()
-
-    def _solve_failed(self, message: str) -> None:
-        self._set_editing(True)
-        self.status.set_state("not converged")
-        self.log.add_message("error", f"The solve failed: {message}")
-        self.result_tabs.setCurrentWidget(self.log)
-        self.scene.set_results(self.case.solution, self.results_current)
-
-    def _show_results(self, solution, current: bool) -> None:
-        """Put a solution (or none) in the stream table, diagram, details and status line."""
-        self.results_current = current and solution is not None
-        unit_system = self.case.unit_system
-        self.stream_table.set_solution(solution, unit_system)
-        self.scene.set_unit_system(unit_system)
-        self.scene.set_results(solution, self.results_current)
-        self.details.set_solution(solution)
-        if solution is None:
-            self.status.set_progress(None, None)
-            self.status.set_closure("")
-            self._refresh_idle_state()
-            return
-        self.status.set_state(SOLUTION_STATES.get(solution.status, "not converged"))
-        records = solution.convergence.history.records if solution.convergence else []
-        residual = (
-            max(records[-1].residuals.values()) if records and records[-1].residuals else None
-        )
-        self.status.set_progress(
-            solution.convergence.iterations if solution.convergence else solution.passes, residual
-        )
-        self.status.set_closure(closure_text(solution.balance))
-
-    def _set_editing(self, enabled: bool) -> None:
-        self.editor.set_enabled(enabled)
-        self.shelf.setEnabled(enabled)
-        self.details.setEnabled(enabled)
-        self.actions["solve"].setEnabled(enabled)
-        self.actions["stop"].setEnabled(not enabled)
-        self.actions.method_combo.setEnabled(enabled)
-        self.actions.method_group.setEnabled(enabled)
-        for name in EDIT_ACTIONS:
-            self.actions[name].setEnabled(enabled)
-        self.actions.recent_menu.setEnabled(enabled)
-        self.actions["undo"].setEnabled(enabled and self.undo_stack.canUndo())
-        self.actions["redo"].setEnabled(enabled and self.undo_stack.canRedo())
 
     # ---- closing -------------------------------------------------------------------------
     def closeEvent(self, event: QCloseEvent) -> None:

@@ -108,9 +108,11 @@ class StatusLine(QStatusBar):
             else f"largest residual {format_value(largest_residual, 3)}"
         )
 
-    def set_closure(self, text: str) -> None:
+    def set_closure(self, text: str, details: str = "") -> None:
+        """The balance verdict (kept short so the caution line has room); ``details``
+        (every closure) shows on hover."""
         self.closure_label.setText(text)
-        self.closure_label.setToolTip(text)
+        self.closure_label.setToolTip(details or text)
 
     def show_note(self, text: str, milliseconds: int = 8000) -> None:
         """A passing explanation (a refused gesture, a stop request), cleared after a while."""
@@ -119,12 +121,13 @@ class StatusLine(QStatusBar):
         self._note_timer.start(milliseconds)
 
 
-def closure_text(balance) -> str:
-    """One line for the status bar: relative closures of mass, elements and energy."""
+def closure_text(balance) -> tuple[str, str]:
+    """For the status bar: the verdict with the largest relative closure, and every
+    closure (mass, elements, energy) for the tooltip."""
     if balance is None:
-        return ""
+        return "", ""
     verdict = "balances close" if balance.closes else "balances do not close"
-    values = ", ".join(
-        f"{name} {format_value(value, 2)}" for name, value in balance.closures.items()
-    )
-    return f"{verdict} ({values})"
+    closures = balance.closures
+    largest = max(closures.values(), default=0.0)
+    details = ", ".join(f"{name} {format_value(value, 2)}" for name, value in closures.items())
+    return f"{verdict} (largest {format_value(largest, 2)})", f"Relative closures: {details}"

@@ -1,16 +1,23 @@
 """The stream table: every stream of a solution as a column, in the chosen unit system.
 
-Rows: phase, temperature, pressure, total molar flow, mass flow, enthalpy flow, then
-each component's molar flow and mole fraction. :class:`StreamTableModel` is a
+Columns follow the flowsheet's stream order (the order of ``Flowsheet.streams``, which
+is the case's order); tear streams are marked in teal with "(tear)". Rows: phase,
+temperature, pressure, total molar flow, mass flow, enthalpy flow, then each
+component's molar flow and mole fraction. :class:`StreamTableModel` is a
 ``QAbstractTableModel`` adapter: the display role gives formatted text in display units,
 ``VALUE_ROLE`` the number in display units and ``INTERNAL_ROLE`` the model's own number
 (mol/s, K, Pa, W). Copy gives tab-separated text; CSV export starts with the cautions.
+
+Round-off floor: in each row, a value whose magnitude is below :data:`ROW_FLOOR` times
+the row's largest magnitude is shown (and copied and exported) as 0. An enthalpy flow of
+-4.7e-13 kW beside flows of thousands of kW is the round-off of a sum that is zero (a
+feed of elements at 298.15 K), not a result; the number itself stays in ``VALUE_ROLE``.
 """
 
 from __future__ import annotations
 
 import csv
-import re
+import math
 from dataclasses import dataclass
 from typing import Any
 
@@ -30,6 +37,8 @@ from model.cautions import CAUTIONS
 from units_of_measure import UNIT_SYSTEMS, format_value, from_internal
 
 VALUE_ROLE = Qt.ItemDataRole.UserRole
+#: Relative floor below which a value counts as 0 in its row (see the module docstring).
+ROW_FLOOR = 1e-12
 INTERNAL_ROLE = Qt.ItemDataRole.UserRole + 1
 TEAR_COLOUR = QColor("#00796b")
 
@@ -52,14 +61,30 @@ class TableRow:
     def title(self) -> str:
         return f"{self.label} [{self.unit}]" if self.unit and self.unit != "1" else self.label
 
+    @property
+    def floor(self) -> float:
+        """Magnitudes below this are shown as 0: :data:`ROW_FLOOR` x the row's largest."""
+        numbers = [abs(v) for v in self.shown if not isinstance(v, str) and math.isfinite(v)]
+        return ROW_FLOOR * max(numbers, default=0.0)
 
-def _natural_key(name: str) -> list[Any]:
-    return [int(part) if part.isdigit() else part for part in re.split(r"(\d+)", name)]
+    def text(self, column: int, floor: float | None = None) -> str:
+        """The display text of one value, round-off below the row's floor shown as 0."""
+        return shown_text(self.shown[column], self.floor if floor is None else floor)
+
+    def texts(self) -> list[str]:
+        """Display texts of every value (the floor computed once)."""
+        floor = self.floor
+        return [shown_text(v, floor) for v in self.shown]
 
 
-def stream_names(solution: Any) -> list[str]:
-    """The solution's streams in natural order (S2 before S10)."""
-    return sorted(solution.streams, key=_natural_key) if solution is not None else []
+def stream_names(solution: Any, order: list[str] | None = None) -> list[str]:
+    """The solution's streams in ``order`` (the flowsheet's stream order), then any other
+    stream of the solution in the solution's own order (which is the flowsheet's order
+    when it was solved)."""
+    if solution is None:
+        return []
+    ordered = [name for name in (order or []) if name in solution.streams]
+    return ordered + [name for name in solution.streams if name not in ordered]
 
 
 def build_rows(solution: Any, unit_system: str, names: list[str] | None = None) -> list[TableRow]:
@@ -97,10 +122,13 @@ def build_rows(solution: Any, unit_system: str, names: list[str] | None = None) 
     return rows
 
 
-def shown_text(value: Any) -> str:
-    """A cell's display text: numbers with 5 significant digits, words as they are."""
+def shown_text(value: Any, floor: float = 0.0) -> str:
+    """A cell's display text: numbers with 5 significant digits (0 when their magnitude
+    is below ``floor``), words as they are."""
     if isinstance(value, str):
         return value
+    if abs(value) < floor:
+        return "0"
     return format_value(value)
 
 
@@ -131,7 +159,7 @@ class StreamTableModel(QAbstractTableModel):
         if not row.shown:
             return None
         if role == Qt.ItemDataRole.DisplayRole:
-            return shown_text(row.shown[index.column()])
+            return row.text(index.column())
         if role == VALUE_ROLE:
             return row.shown[index.column()]
         if role == INTERNAL_ROLE:
@@ -164,7 +192,7 @@ class StreamTableModel(QAbstractTableModel):
         """Header line and one line per row, as display text (for copy and CSV)."""
         lines = [["", *self.names]]
         for row in self.rows:
-            values = [shown_text(v) for v in row.shown] if row.shown else [""] * len(self.names)
+            values = row.texts() if row.shown else [""] * len(self.names)
             lines.append([row.title.strip(), *values])
         return lines
 
@@ -199,17 +227,21 @@ class StreamTable(QWidget):
         self._solution: Any = None
         self._unit_system = "Metric"
         self.copy_button.clicked.connect(self.copy_to_clipboard)
-        self.export_button.clicked.connect(self._ask_export)
+        self.export_button.clicked.connect(self.ask_export)
         self.view.horizontalHeader().sectionDoubleClicked.connect(self._activate_column)
         self.view.doubleClicked.connect(lambda index: self._activate_column(index.column()))
         shortcut = QShortcut(QKeySequence.StandardKey.Copy, self.view)
         shortcut.setContext(Qt.ShortcutContext.WidgetWithChildrenShortcut)
         shortcut.activated.connect(self.copy_to_clipboard)
 
-    def set_solution(self, solution: Any, unit_system: str) -> None:
-        """Show ``solution``'s streams (None empties the table) in ``unit_system``."""
+    def set_solution(
+        self, solution: Any, unit_system: str, stream_order: list[str] | None = None
+    ) -> None:
+        """Show ``solution``'s streams (None empties the table) in ``unit_system``, as
+        columns in ``stream_order`` (the flowsheet's stream names; default: the
+        solution's order)."""
         self._solution, self._unit_system = solution, unit_system
-        names = stream_names(solution)
+        names = stream_names(solution, stream_order)
         tears = set(getattr(solution, "tear_streams", []) or [])
         self.model.set_content(names, build_rows(solution, unit_system, names), tears)
         self.view.resizeColumnsToContents()
@@ -253,19 +285,26 @@ class StreamTable(QWidget):
                 if not row.shown:
                     writer.writerow([row.title.strip()])
                     continue
+                floor = row.floor
                 writer.writerow(
                     [
                         row.title.strip(),
-                        *(v if isinstance(v, str) else f"{v:.10g}" for v in row.shown),
+                        *(
+                            v if isinstance(v, str) else ("0" if abs(v) < floor else f"{v:.10g}")
+                            for v in row.shown
+                        ),
                     ]
                 )
 
-    def _ask_export(self) -> None:
+    def ask_export(self) -> bool:
+        """Ask for a file name and export the table to it; True when written."""
         path, _ = QFileDialog.getSaveFileName(
             self, "Export stream table", "streams.csv", "CSV files (*.csv)"
         )
-        if path:
-            self.export_csv(path)
+        if not path:
+            return False
+        self.export_csv(path)
+        return True
 
     def _activate_column(self, column: int) -> None:
         if 0 <= column < len(self.model.names):

@@ -64,6 +64,15 @@ def build_actions(window: MainWindow) -> WindowActions:
     _action(window, a, "open", "&Open…", files.open_case, key.Open, "Open a case")
     _action(window, a, "save", "&Save", files.save, key.Save, "Save the case")
     _action(window, a, "save_as", "Save &As…", files.save_as, key.SaveAs)
+    _action(
+        window,
+        a,
+        "export_csv",
+        "&Export Stream Table…",
+        window.stream_table.ask_export,
+        None,
+        "Write the stream table to a CSV file (its first line carries the cautions)",
+    )
     _action(window, a, "quit", "&Quit", window.close, key.Quit)
     a["undo"] = window.undo_stack.createUndoAction(window, "&Undo")
     a["undo"].setShortcuts([QKeySequence(key.Undo)])
@@ -101,9 +110,20 @@ def build_actions(window: MainWindow) -> WindowActions:
     _action(window, a, "zoom_out", "Zoom &Out", lambda: window.view.zoom_by(0.8), key.ZoomOut)
     _action(window, a, "solve", "&Solve", window.start_solve, "F5", "Solve the flowsheet (F5)")
     _action(window, a, "stop", "S&top", window.stop_solve, "Esc", "Stop the solve (Esc)")
+    _action(
+        window,
+        a,
+        "second_opinion",
+        "Second &Opinion (all streams at once)",
+        window.start_second_opinion,
+        None,
+        "Check the solution by solving every stream at once, without tear streams",
+    )
     _action(window, a, "about", "&About Loopwright", window.show_about)
     _action(window, a, "clear_recent", "Clear Recent Files", files.clear_recent)
     a["stop"].setEnabled(False)
+    a["second_opinion"].setEnabled(False)
+    a["export_csv"].setEnabled(False)
     _build_choosers(window, result)
     _build_menus(window, result)
     _build_toolbar(window, result)
@@ -145,6 +165,8 @@ def _build_menus(window: MainWindow, result: WindowActions) -> None:
     result.recent_menu = file_menu.addMenu("Open &Recent")
     file_menu.addActions([a["save"], a["save_as"]])
     file_menu.addSeparator()
+    file_menu.addAction(a["export_csv"])
+    file_menu.addSeparator()
     file_menu.addAction(a["quit"])
     edit_menu = bar.addMenu("&Edit")
     edit_menu.addActions([a["undo"], a["redo"]])
@@ -159,7 +181,7 @@ def _build_menus(window: MainWindow, result: WindowActions) -> None:
     units_menu.addActions(result.unit_group.actions())
     window.panels_menu = view_menu.addMenu("&Panels")
     solve_menu = bar.addMenu("&Solve")
-    solve_menu.addActions([a["solve"], a["stop"]])
+    solve_menu.addActions([a["solve"], a["stop"], a["second_opinion"]])
     solve_menu.addSeparator()
     method_menu = solve_menu.addMenu("&Method")
     method_menu.addActions(result.method_group.actions())

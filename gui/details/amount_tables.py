@@ -28,7 +28,7 @@ from .table_editor import TableEditor, parse_table_number
 FRACTION_UNITS = ("mole fraction", "mass fraction")
 
 
-def _flow_kind(unit: str) -> str | None:
+def flow_kind(unit: str) -> str | None:
     """``"molar_flow"`` or ``"mass_flow"`` for a flow unit, else None."""
     for kind in FLOW_KINDS:
         try:
@@ -54,8 +54,8 @@ class ComponentAmountsEditor(TableEditor):
         if kind == "component_flows":
             self.unit_combo.setEditable(True)
             self.unit_combo.setInsertPolicy(QComboBox.InsertPolicy.NoInsert)
-            for flow_kind in FLOW_KINDS:
-                self.unit_combo.addItems(list(display_units(flow_kind)))
+            for each_kind in FLOW_KINDS:
+                self.unit_combo.addItems(list(display_units(each_kind)))
             self.unit_combo.lineEdit().editingFinished.connect(self._on_unit_typed)
         else:
             self.unit_combo.addItems(list(FRACTION_UNITS))
@@ -152,7 +152,7 @@ class ComponentAmountsEditor(TableEditor):
             self._change_unit(self.unit())
 
     def _change_unit(self, unit: str) -> None:
-        if self.kind == "component_flows" and _flow_kind(unit) is None:
+        if self.kind == "component_flows" and flow_kind(unit) is None:
             message = (
                 f"{self.context.block_name}: unit {unit!r} is not allowed; expected a "
                 "molar flow unit such as kmol/h or a mass flow unit such as kg/h"
@@ -161,6 +161,7 @@ class ComponentAmountsEditor(TableEditor):
             set_invalid_style(self.unit_combo, message)
             return
         set_invalid_style(self.unit_combo, None)
+        self._show_unit(unit)
         if self._value is None or not self._value.values:
             if self._any_cell_text():
                 self._emit_from_cells()
@@ -189,7 +190,7 @@ class ComponentAmountsEditor(TableEditor):
                 weights = {n: v / masses[n] for n, v in value.values.items()}
             total = sum(weights.values()) or 1.0
             return {n: rounded(w / total) for n, w in weights.items()}
-        old_kind, new_kind = _flow_kind(value.unit), _flow_kind(unit)
+        old_kind, new_kind = flow_kind(value.unit), flow_kind(unit)
         converted = {}
         for name, number in value.values.items():
             internal = to_internal(number, value.unit, old_kind)

@@ -19,16 +19,10 @@ from model.block_kinds import SpecField
 from model.errors import LoopwrightError
 
 from .amount_tables import ComponentAmountsEditor, PortFractionsEditor
+from .choice_editors import ChoiceEditor, FractionEditor, PortEditor
 from .reaction_table import ReactionTable
 from .results_text import block_results_html
-from .spec_editors import (
-    ChoiceEditor,
-    EditorContext,
-    FractionEditor,
-    PortEditor,
-    QuantityEditor,
-    SpecEditor,
-)
+from .spec_editors import EditorContext, QuantityEditor, SpecEditor
 from .split_table import SplitTable
 
 TABLE_KINDS = ("component_flows", "component_fractions", "port_fractions", "reactions")

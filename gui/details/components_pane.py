@@ -24,6 +24,7 @@ from model.errors import ComponentNotFoundError, InputError
 from model.flowsheet import Flowsheet
 from units_of_measure import UNIT_SYSTEMS, format_quantity
 
+from .component_form import ComponentForm
 from .spec_editors import INVALID_COLOR, set_invalid_style
 
 
@@ -95,6 +96,14 @@ class ComponentsPane(QWidget):
         self.properties.setAlignment(Qt.AlignmentFlag.AlignTop | Qt.AlignmentFlag.AlignLeft)
         self.properties.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
         self.component_list.setMaximumHeight(160)
+        self.define_toggle = QPushButton("Define by hand…")
+        self.define_toggle.setCheckable(True)
+        self.define_toggle.setToolTip(
+            "Type the constants of a component the database lacks (each with its unit)"
+        )
+        self.define_form = ComponentForm(flowsheet_getter, undo_stack, unit_system_getter)
+        self.define_form.hide()
+        self.define_toggle.toggled.connect(self.define_form.setVisible)
         self.shown_rows: list[tuple[str, str, str]] = []
         self._listed: list[str] = []
         self._build_layout()
@@ -114,7 +123,12 @@ class ComponentsPane(QWidget):
         layout.addWidget(self.message_label)
         layout.addLayout(self.suggestion_row)
         layout.addWidget(self.component_list, 1)
-        layout.addWidget(self.remove_button, 0, Qt.AlignmentFlag.AlignLeft)
+        buttons = QHBoxLayout()
+        buttons.addWidget(self.remove_button)
+        buttons.addStretch(1)
+        buttons.addWidget(self.define_toggle)
+        layout.addLayout(buttons)
+        layout.addWidget(self.define_form)
         layout.addWidget(self.properties_title)
         layout.addWidget(self.properties, 1)
 
@@ -229,3 +243,4 @@ class ComponentsPane(QWidget):
 
     def set_unit_system(self) -> None:
         self._show_properties()
+        self.define_form.refresh_context()

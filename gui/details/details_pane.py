@@ -138,7 +138,7 @@ class DetailsPane(QWidget):
         self._unit_system = name
         for form in self._forms.values():
             form.refresh_context()
-        self.stream_page.set_solution(self._solution)
+        self.stream_page.refresh_context()
         self.components_page.set_unit_system()
 
     def set_solution(self, solution: Any) -> None:
@@ -183,6 +183,7 @@ class DetailsPane(QWidget):
     def _on_components_changed(self) -> None:
         for form in self._forms.values():
             form.refresh_context()
+        self.stream_page.refresh_context()
         self.components_page.refresh()
 
     def _on_structure_changed(self) -> None:

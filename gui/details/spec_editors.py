@@ -17,6 +17,7 @@ from typing import Any
 from PySide6.QtCore import QSignalBlocker, Qt, Signal
 from PySide6.QtGui import QColor
 from PySide6.QtWidgets import (
+    QApplication,
     QComboBox,
     QHBoxLayout,
     QLabel,
@@ -128,6 +129,11 @@ class QuantityEditor(SpecEditor):
     Choosing another unit converts the value shown (the same quantity; between a molar
     and a mass flow unit the number is kept, as a new spec). With no value yet, the
     chosen unit is the one the next number is read in.
+
+    Typed text is held, not applied, while the keyboard focus moves from the number to
+    the unit chooser: the text is applied when it is committed (Enter, or the focus
+    leaving the editor) or, together with the unit, when a unit is chosen. So "25"
+    then "degF" is one edit (one undo step) of 25 degF, not 25 degC converted.
     """
 
     def __init__(self, context: EditorContext, kind: str, parent: QWidget | None = None) -> None:
@@ -151,7 +157,7 @@ class QuantityEditor(SpecEditor):
         layout.addLayout(row)
         layout.addWidget(self.message_label)
         self.value_edit.textEdited.connect(self._on_text_edited)
-        self.value_edit.editingFinished.connect(self._commit_text)
+        self.value_edit.editingFinished.connect(self._on_editing_finished)
         self.unit_combo.activated.connect(self._on_unit_chosen)
         self.unit_combo.lineEdit().editingFinished.connect(self._on_unit_typed)
         self._show_unit(context.default_unit(self._kinds[0]))
@@ -176,6 +182,25 @@ class QuantityEditor(SpecEditor):
 
     def unit(self) -> str:
         return self.unit_combo.currentText().strip()
+
+    def has_pending_text(self) -> bool:
+        """True while typed text waits to be applied (held or refused)."""
+        return self._dirty
+
+    def typed_quantity(self) -> TypedQuantity | None:
+        """The text shown read in the chosen unit (None when empty); raises UnitError."""
+        text = self.value_edit.text().strip()
+        if not text:
+            return None
+        number, unit = self._parse(text, self.unit())
+        return TypedQuantity(number, unit)
+
+    def internal_value(self) -> float | None:
+        """:meth:`typed_quantity` in internal units (None when empty); raises UnitError."""
+        quantity = self.typed_quantity()
+        if quantity is None:
+            return None
+        return to_internal(quantity.value, quantity.unit, self._unit_kind(quantity.unit))
 
     def _show_unit(self, unit: str) -> None:
         index = self.unit_combo.findText(unit)
@@ -214,7 +239,23 @@ class QuantityEditor(SpecEditor):
         assert error is not None
         raise error
 
-    def _commit_text(self) -> None:
+    def _inside_unit_chooser(self, widget: QWidget | None) -> bool:
+        combo = self.unit_combo
+        if widget is None:
+            return False
+        popup = combo.view().window()
+        return widget is combo or combo.isAncestorOf(widget) or widget.window() is popup
+
+    def _on_editing_finished(self) -> None:
+        """Apply the typed text, unless the focus went to this editor's unit chooser:
+        then the text waits for the unit (see the class docstring)."""
+        if self._dirty and self._inside_unit_chooser(QApplication.focusWidget()):
+            return
+        self._commit_text()
+
+    def _commit_text(self, chosen_unit: str | None = None) -> None:
+        """Apply the typed text; with ``chosen_unit``, in that unit (converted if the text
+        named another unit of the same kind)."""
         if not self._dirty:
             return
         text = self.value_edit.text().strip()
@@ -228,6 +269,8 @@ class QuantityEditor(SpecEditor):
         except UnitError as error:
             self.show_error(str(error))
             return
+        if chosen_unit and unit != chosen_unit:
+            number, unit = self._in_unit(number, unit, chosen_unit), chosen_unit
         self._dirty = False
         self._clear_marks()
         with QSignalBlocker(self.value_edit), QSignalBlocker(self.unit_combo):
@@ -268,113 +311,24 @@ class QuantityEditor(SpecEditor):
         if self._dirty or self._value is None:
             if self.value_edit.text().strip():
                 self._dirty = True
-                self._commit_text()
+                self._commit_text(chosen_unit=unit)
             return
-        old = self._value
-        old_kind = self._unit_kind(old.unit)
-        if old_kind == kind:
-            internal = to_internal(old.value, old.unit, kind)
-            number = rounded(from_internal(internal, kind, unit))
-        else:  # molar <-> mass basis: a new spec with the same number
-            number = old.value
+        number = self._in_unit(self._value.value, self._value.unit, unit)
         self._clear_marks()
         with QSignalBlocker(self.value_edit):
             self.value_edit.setText(number_text(number))
         self.edited.emit(TypedQuantity(number, unit))
+
+    def _in_unit(self, number: float, unit: str, new_unit: str) -> float:
+        """``number`` in ``unit`` expressed in ``new_unit``; between a molar and a mass
+        flow unit the number is kept (a new spec on the other basis)."""
+        kind = self._unit_kind(unit)
+        if kind is None or kind != self._unit_kind(new_unit):
+            return number
+        return rounded(from_internal(to_internal(number, unit, kind), kind, new_unit))
 
 
 def _leading_number(text: str) -> str:
     """The leading number of ``text`` as typed (sign, digits, point, exponent)."""
     match = re.match(r"\s*[+\-\u2212]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?", text)
     return match.group(0) if match else ""
-
-
-class FractionEditor(SpecEditor):
-    """A plain fraction between 0 and 1 (``"2 %"`` is read as 0.02)."""
-
-    def __init__(self, context: EditorContext, kind: str = "fraction", parent=None) -> None:
-        super().__init__(context, kind, parent)
-        self.value_edit = QLineEdit()
-        self.value_edit.setPlaceholderText("0 to 1")
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(self.value_edit)
-        layout.addWidget(self.message_label)
-        self._dirty = False
-        self.value_edit.textEdited.connect(lambda _text: setattr(self, "_dirty", True))
-        self.value_edit.editingFinished.connect(self._commit)
-
-    def set_value(self, value: float | None) -> None:
-        self._dirty = False
-        with QSignalBlocker(self.value_edit):
-            self.value_edit.setText("" if value is None else number_text(float(value)))
-        self.clear_error()
-        set_invalid_style(self.value_edit, None)
-
-    def show_error(self, message: str) -> None:
-        super().show_error(message)
-        set_invalid_style(self.value_edit, message)
-
-    def _commit(self) -> None:
-        if not self._dirty:
-            return
-        text = self.value_edit.text().strip()
-        self._dirty = False
-        if not text:
-            self.edited.emit(None)
-            return
-        try:
-            value = float(parse_quantity(text, "fraction", self.context.block_name).magnitude)
-        except UnitError as error:
-            self._dirty = True
-            self.show_error(str(error))
-            return
-        self.edited.emit(value)
-
-
-class ChoiceEditor(SpecEditor):
-    """One of a fixed list of words (phase, mode, basis)."""
-
-    def __init__(self, context: EditorContext, choices: tuple[str, ...], parent=None) -> None:
-        super().__init__(context, "choice", parent)
-        self.combo = QComboBox()
-        self.combo.addItems(list(choices))
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(self.combo)
-        layout.addWidget(self.message_label)
-        self.combo.activated.connect(lambda _i: self.edited.emit(self.combo.currentText()))
-
-    def set_value(self, value: str | None) -> None:
-        with QSignalBlocker(self.combo):
-            self.combo.setCurrentIndex(self.combo.findText(value) if value else -1)
-        self.clear_error()
-
-
-class PortEditor(SpecEditor):
-    """One of the block's outlet ports, shown with the stream that leaves it."""
-
-    def __init__(self, context: EditorContext, parent=None) -> None:
-        super().__init__(context, "port", parent)
-        self.combo = QComboBox()
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(self.combo)
-        layout.addWidget(self.message_label)
-        self._value: str | None = None
-        self.combo.activated.connect(lambda _i: self.edited.emit(self.combo.currentData()))
-        self.refresh_context()
-
-    def refresh_context(self) -> None:
-        flowsheet = self.context.flowsheet
-        with QSignalBlocker(self.combo):
-            self.combo.clear()
-            for port in flowsheet.outlet_ports(self.context.block_name):
-                stream = flowsheet.stream_out_of(self.context.block_name, port)
-                self.combo.addItem(port if stream is None else f"{port} ({stream.name})", port)
-            self.combo.setCurrentIndex(self.combo.findData(self._value) if self._value else -1)
-
-    def set_value(self, value: str | None) -> None:
-        self._value = value
-        self.refresh_context()
-        self.clear_error()

@@ -37,6 +37,23 @@ def _fonts() -> dict[str, QFont]:
     }
 
 
+def name_lines(name: str, metrics: QFontMetricsF, width: float) -> list[str]:
+    """A block name in one line, or wrapped on two (at a space or after a hyphen) when
+    it is wider than ``width``; only a name too long for two lines is elided."""
+    if metrics.horizontalAdvance(name) <= width:
+        return [name]
+    breaks = [i + 1 for i, c in enumerate(name) if c in " -" and 0 < i < len(name) - 1]
+    fitting = [b for b in breaks if metrics.horizontalAdvance(name[:b].rstrip()) <= width]
+    if fitting:
+        first, rest = name[: fitting[-1]].rstrip(), name[fitting[-1] :].strip()
+    else:  # one long word: as much of it as fits, the rest below
+        cut = max(1, len(name) - 1)
+        while cut > 1 and metrics.horizontalAdvance(name[:cut]) > width:
+            cut -= 1
+        first, rest = name[:cut], name[cut:]
+    return [first, metrics.elidedText(rest, Qt.TextElideMode.ElideRight, width)]
+
+
 class PortItem(QGraphicsEllipseItem):
     """An inlet or outlet circle; the scene starts a stream drag from it."""
 
@@ -235,23 +252,25 @@ class BlockItem(QGraphicsItem):
             glyph_rect, Qt.AlignmentFlag.AlignCenter, look.shown_glyph(kind.glyph, 15.0)
         )
         text_left = glyph_rect.right() + 6
-        text_width = body.right() - 10 - text_left
-        name = QFontMetricsF(fonts["name"]).elidedText(
-            self.block.name, Qt.TextElideMode.ElideRight, text_width
-        )
+        text_width = body.right() - 8 - text_left
+        metrics = QFontMetricsF(fonts["name"])
+        lines = name_lines(self.block.name, metrics, text_width)
+        line_height = metrics.height()
+        kind_height = 15.0 if details else 0.0
+        top = body.center().y() - (line_height * len(lines) + kind_height) / 2
         painter.setFont(fonts["name"])
-        painter.drawText(
-            QRectF(text_left, body.center().y() - 17, text_width, 17),
-            Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter,
-            name,
-        )
+        left = Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter
+        for number, line in enumerate(lines):
+            painter.drawText(
+                QRectF(text_left, top + number * line_height, text_width, line_height), left, line
+            )
         if not details:
             return
         painter.setFont(fonts["kind"])
         painter.setPen(look.SLATE_LIGHT)
         painter.drawText(
-            QRectF(text_left, body.center().y() + 1, text_width, 15),
-            Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter,
+            QRectF(text_left, top + len(lines) * line_height, text_width, kind_height),
+            left,
             kind.name.lower(),
         )
 

@@ -155,13 +155,21 @@ class DiagramEditor(QObject):
         streams = self._scene.selected_stream_names()
         if blocks or streams:
             self._run(commands.DeleteCommand(flowsheet, blocks, streams))
+        else:
+            self.message.emit("Select blocks or streams on the diagram to delete them.")
 
     def copy_selection(self) -> int:
         """Copy the selected blocks and the streams between them; return the block count."""
         names = self._scene.selected_block_names()
-        if names:
-            self._clipboard = commands.ClipboardContent.from_selection(self._flowsheet(), names)
-            self._paste_count = 0
+        if not names:
+            self.message.emit("Select blocks on the diagram to copy them.")
+            return 0
+        self._clipboard = commands.ClipboardContent.from_selection(self._flowsheet(), names)
+        self._paste_count = 0
+        self.message.emit(
+            f"Copied {len(names)} block{'s' if len(names) != 1 else ''} "
+            "and the streams between them."
+        )
         return len(names)
 
     def can_paste(self) -> bool:
@@ -170,6 +178,7 @@ class DiagramEditor(QObject):
     def paste(self) -> list[str]:
         """Paste the copied blocks with new names, offset from the originals."""
         if not self._clipboard:
+            self.message.emit("Nothing to paste: copy blocks first.")
             return []
         self._paste_count += 1
         offset = (PASTE_OFFSET * self._paste_count, PASTE_OFFSET * self._paste_count)

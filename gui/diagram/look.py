@@ -39,7 +39,7 @@ STUB = 18.0
 LANE_SPACING = 10.0  # between backward routes leaving neighbouring ports
 GRID_STEP = 20.0
 # Below these magnifications small words are a few pixels high: they are left out.
-DETAIL_ZOOM = 0.55  # kind line, badge words, port labels, stream names
+DETAIL_ZOOM = 0.5  # kind line, badge words, port labels, stream names
 WORDS_ZOOM = 0.3  # block names and glyphs
 
 

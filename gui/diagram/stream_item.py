@@ -37,10 +37,11 @@ def orthogonal_route(
     """Corner points of a right-angled route from an outlet to an inlet.
 
     Forward streams (target to the right) take one vertical jog half-way; backward
-    streams, such as recycles, leave to the right, run below both blocks (above them when
-    the target is well above the source) and enter the inlet from the left. ``lane``
-    (the port's place on its block) spaces backward routes apart, so two of them never
-    share a vertical run.
+    streams, such as recycles, leave to the right, run below both blocks and enter the
+    inlet from the left. When the target is well above the source, the route runs
+    through the gap between the two blocks (over the top of both when they overlap in
+    height), so it does not loop around the target. ``lane`` (the port's place on its
+    block) spaces backward routes apart, so two of them never share a vertical run.
     """
     offset = look.STUB + look.LANE_SPACING * lane
     leave = QPointF(start.x() + offset, start.y())
@@ -49,8 +50,12 @@ def orthogonal_route(
         middle_x = (start.x() + end.x()) / 2
         return [start, QPointF(middle_x, start.y()), QPointF(middle_x, end.y()), end]
     margin = 34 + look.LANE_SPACING * lane
-    if end.y() < start.y() - look.BLOCK_MIN_HEIGHT:  # target well above: go over the top
-        lane_y = min(source_box.top(), target_box.top()) - margin
+    if end.y() < start.y() - look.BLOCK_MIN_HEIGHT:  # target well above the source
+        gap = source_box.top() - target_box.bottom()
+        if gap >= 2 * look.STUB:  # between the two blocks
+            lane_y = target_box.bottom() + gap / 2 - look.LANE_SPACING * lane
+        else:  # over the top of both
+            lane_y = min(source_box.top(), target_box.top()) - margin
     else:
         lane_y = max(source_box.bottom(), target_box.bottom()) + margin
     return [start, leave, QPointF(leave.x(), lane_y), QPointF(arrive.x(), lane_y), arrive, end]

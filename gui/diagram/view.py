@@ -2,11 +2,13 @@
 
 Pan with the middle button, or hold the space bar and drag with the left button.
 Dropping a block kind from the block shelf emits :attr:`DiagramView.block_dropped`.
+After :meth:`DiagramView.fit_to_view` the view stays fitted while it is resized (the
+window settling its docks, the user resizing it) until the user zooms or pans.
 """
 
 from __future__ import annotations
 
-from PySide6.QtCore import QPointF, QRectF, Qt, Signal
+from PySide6.QtCore import QPointF, Qt, Signal
 from PySide6.QtGui import QKeyEvent, QMouseEvent, QPainter, QWheelEvent
 from PySide6.QtWidgets import QGraphicsView
 
@@ -16,7 +18,9 @@ ZOOM_STEP = 1.15
 MIN_ZOOM = 0.1
 MAX_ZOOM = 4.0
 FIT_MARGIN = 40.0
-FIT_MAX_ZOOM = 1.25
+#: A fitted diagram is never magnified beyond its natural size: a single block does not
+#: fill the window.
+FIT_MAX_ZOOM = 1.0
 
 
 class DiagramView(QGraphicsView):
@@ -38,38 +42,56 @@ class DiagramView(QGraphicsView):
         self.setFocusPolicy(Qt.FocusPolicy.StrongFocus)
         self._pan_start: QPointF | None = None
         self._space_held = False
+        self.fitted = False
 
     # ---- zoom -----------------------------------------------------------------------
     def zoom(self) -> float:
         return self.transform().m11()
 
     def zoom_by(self, factor: float) -> None:
-        """Scale by ``factor``, kept within [MIN_ZOOM, MAX_ZOOM]."""
+        """Scale by ``factor``, kept within [MIN_ZOOM, MAX_ZOOM] (the user's zoom)."""
+        self.fitted = False
         target = min(MAX_ZOOM, max(MIN_ZOOM, self.zoom() * factor))
         factor = target / self.zoom()
         if abs(factor - 1.0) > 1e-9:
             self.scale(factor, factor)
 
     def reset_zoom(self) -> None:
+        """Natural size (the user's choice: the view no longer keeps a fit)."""
+        self.fitted = False
         self.resetTransform()
 
     def wheelEvent(self, event: QWheelEvent) -> None:
+        self.fitted = False
         steps = event.angleDelta().y() / 120.0
         if steps:
             self.zoom_by(ZOOM_STEP**steps)
         event.accept()
 
     def fit_to_view(self) -> None:
-        """Show every item, with a margin, at no more than a modest magnification."""
+        """Show every block and stream, centred with a margin, at no more than natural size
+        (:data:`FIT_MAX_ZOOM`); an empty diagram is shown at natural size around the origin.
+        The view then keeps the fit when it is resized, until the user zooms or pans."""
         scene = self.scene()
-        bounds = scene.itemsBoundingRect() if scene.items() else QRectF(-200, -150, 400, 300)
-        self.fitInView(
-            bounds.adjusted(-FIT_MARGIN, -FIT_MARGIN, FIT_MARGIN, FIT_MARGIN),
-            Qt.AspectRatioMode.KeepAspectRatio,
-        )
-        if self.zoom() > FIT_MAX_ZOOM:
-            self.zoom_by(FIT_MAX_ZOOM / self.zoom())
+        self.resetTransform()
+        if scene.items():
+            bounds = scene.itemsBoundingRect()
+            self.fitInView(
+                bounds.adjusted(-FIT_MARGIN, -FIT_MARGIN, FIT_MARGIN, FIT_MARGIN),
+                Qt.AspectRatioMode.KeepAspectRatio,
+            )
+            if self.zoom() > FIT_MAX_ZOOM:
+                self.resetTransform()
+                self.scale(FIT_MAX_ZOOM, FIT_MAX_ZOOM)
             self.centerOn(bounds.center())
+        else:
+            self.centerOn(QPointF(0.0, 0.0))
+        self.fitted = True
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        if self.fitted:
+            self.fit_to_view()
 
     def center_on_item(self, item) -> None:
         self.centerOn(item)
@@ -78,6 +100,7 @@ class DiagramView(QGraphicsView):
     def keyPressEvent(self, event: QKeyEvent) -> None:
         if event.key() == Qt.Key.Key_Space and not event.isAutoRepeat():
             self._space_held = True
+            self.fitted = False
             self.setDragMode(QGraphicsView.DragMode.ScrollHandDrag)
             event.accept()
             return
@@ -117,6 +140,7 @@ class DiagramView(QGraphicsView):
 
     def pan_by(self, delta: QPointF) -> None:
         """Move the drawing with the pointer by ``delta`` viewport pixels."""
+        self.fitted = False
         horizontal, vertical = self.horizontalScrollBar(), self.verticalScrollBar()
         horizontal.setValue(horizontal.value() - round(delta.x()))
         vertical.setValue(vertical.value() - round(delta.y()))

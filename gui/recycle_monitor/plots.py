@@ -72,11 +72,12 @@ class ConvergencePlots:
         self.tolerance_line = pg.InfiniteLine(
             angle=0, pen=dashed, label="tolerance", labelOpts=_label_options(above=True)
         )
+        # labels between the two bounds, so neither is cut off at the edge of the plot
         self.q_min_line = pg.InfiniteLine(
-            angle=0, pen=dashed, label="q_min", labelOpts=_label_options(above=False)
+            angle=0, pen=dashed, label="q_min", labelOpts=_label_options(above=True)
         )
         self.q_max_line = pg.InfiniteLine(
-            angle=0, pen=dashed, label="q_max", labelOpts=_label_options(above=True)
+            angle=0, pen=dashed, label="q_max", labelOpts=_label_options(above=False)
         )
         self.residual_plot.addItem(self.tolerance_line)
         self.q_plot.addItem(self.q_min_line)

@@ -294,3 +294,62 @@ def test_details_of_a_solved_example(qtbot, screenshot_dir):
     pane.show_components()
     pane.components_page.component_list.setCurrentRow(2)
     assert pane.grab().save(str(shots / "details_components.png"))
+
+
+def _focus_window(qtbot, widget):
+    widget.activateWindow()
+    qtbot.waitUntil(lambda: widget.isActiveWindow(), timeout=2000)
+
+
+def test_bare_number_then_a_unit_is_one_undo_step(qtbot, pane, sheet):
+    sheet.add_block("Heater", "H1", specs={"T": TypedQuantity(300.0, "K")})
+    editor = pane.show_block("H1").editors["T"]
+    _focus_window(qtbot, pane)
+    editor.value_edit.setFocus()
+    editor.value_edit.selectAll()
+    qtbot.keyClicks(editor.value_edit, "25")
+    editor.unit_combo.setFocus()  # the user goes to the unit chooser
+    qtbot.waitUntil(lambda: editor.unit_combo.hasFocus(), timeout=2000)
+    assert sheet.blocks["H1"].specs["T"] == TypedQuantity(300.0, "K")  # held, not applied
+    assert pane.undo_stack.count() == 0 and editor.has_pending_text()
+    index = editor.unit_combo.findText("degF")
+    editor.unit_combo.setCurrentIndex(index)
+    editor.unit_combo.activated.emit(index)
+    # 25 in the chosen unit, not 25 K converted (which would be -414.67 degF)
+    assert sheet.blocks["H1"].specs["T"] == TypedQuantity(25.0, "degF")
+    assert editor.value_edit.text() == "25" and editor.unit() == "degF"
+    assert pane.undo_stack.count() == 1
+    pane.undo_stack.undo()
+    assert sheet.blocks["H1"].specs["T"] == TypedQuantity(300.0, "K")
+
+
+def test_held_text_is_applied_when_the_focus_leaves_the_editor(qtbot, pane, sheet):
+    sheet.add_block("Heater", "H1")
+    form = pane.show_block("H1")
+    editor = form.editors["T"]
+    _focus_window(qtbot, pane)
+    editor.value_edit.setFocus()
+    qtbot.keyClicks(editor.value_edit, "-10")
+    editor.unit_combo.setFocus()
+    qtbot.waitUntil(lambda: editor.unit_combo.hasFocus(), timeout=2000)
+    assert "T" not in sheet.blocks["H1"].specs
+    form.editors["pressure_drop"].value_edit.setFocus()  # elsewhere, no unit chosen
+    qtbot.waitUntil(lambda: form.editors["pressure_drop"].value_edit.hasFocus(), timeout=2000)
+    assert sheet.blocks["H1"].specs["T"] == TypedQuantity(-10.0, "degC")  # the unit shown
+    assert pane.undo_stack.count() == 1
+
+
+def test_number_with_its_own_unit_then_another_unit_is_converted_once(qtbot, pane, sheet):
+    sheet.add_block("Heater", "H1")
+    editor = pane.show_block("H1").editors["T"]
+    _focus_window(qtbot, pane)
+    editor.value_edit.setFocus()
+    qtbot.keyClicks(editor.value_edit, "25 degC")
+    editor.unit_combo.setFocus()
+    qtbot.waitUntil(lambda: editor.unit_combo.hasFocus(), timeout=2000)
+    index = editor.unit_combo.findText("K")
+    editor.unit_combo.setCurrentIndex(index)
+    editor.unit_combo.activated.emit(index)
+    # T(K) = T(degC) + 273.15 (NIST SP 811)
+    assert sheet.blocks["H1"].specs["T"] == TypedQuantity(298.15, "K")
+    assert pane.undo_stack.count() == 1

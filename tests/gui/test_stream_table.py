@@ -9,10 +9,20 @@ from pathlib import Path  # noqa: E402
 import numpy as np  # noqa: E402
 import pytest  # noqa: E402
 from PySide6.QtCore import Qt  # noqa: E402
-from PySide6.QtGui import QGuiApplication  # noqa: E402
+from PySide6.QtGui import (
+    QGuiApplication,  # noqa: E402
+    QUndoStack,  # noqa: E402
+)
 
+from gui.details import DetailsPane  # noqa: E402
 from gui.log_pane import LogPane  # noqa: E402
-from gui.stream_table import INTERNAL_ROLE, VALUE_ROLE, StreamTable  # noqa: E402
+from gui.stream_table import (  # noqa: E402
+    INTERNAL_ROLE,
+    ROW_FLOOR,
+    VALUE_ROLE,
+    StreamTable,
+    TableRow,
+)
 from model.case_file import load_case  # noqa: E402
 from model.cautions import CAUTIONS  # noqa: E402
 from model.validation import Issue  # noqa: E402
@@ -160,3 +170,66 @@ def test_log_lists_issues_and_links_to_blocks(qtbot):
 def test_screenshot_of_the_stream_table(table, solution, screenshot_dir):
     table.set_solution(solution, "Metric")
     assert table.grab().save(str(screenshot_dir / "stream_table.png"))
+
+
+def test_columns_follow_the_flowsheets_stream_order_with_the_tear_marked(table):
+    case = load_case(EXAMPLE)
+    solution = case.solve()
+    order = list(case.flowsheet.streams)
+    assert order[:3] == ["Make-up", "Converter feed", "Converter effluent"]  # not alphabetical
+    table.set_solution(solution, "Metric", order)
+    assert table.model.names == order
+    table.set_solution(solution, "Metric")  # without an order: the solution's, the same
+    assert table.model.names == order
+    table.set_solution(solution, "Metric", order[::-1])
+    assert table.model.names == order[::-1]
+    tear = solution.tear_streams[0]
+    header = table.model.headerData(column_of(table, tear), Qt.Orientation.Horizontal)
+    assert header == f"{tear} (tear)"
+    colour = table.model.headerData(
+        column_of(table, tear), Qt.Orientation.Horizontal, Qt.ItemDataRole.ForegroundRole
+    )
+    assert colour is not None
+
+
+def test_round_off_below_the_rows_floor_shows_as_zero():
+    row = TableRow("Enthalpy flow", "kW", "power", (0.0, 0.0, 0.0), (-4.7e-13, 2688.6, -1981.0))
+    assert row.floor == pytest.approx(ROW_FLOOR * 2688.6)
+    assert row.texts() == ["0", "2688.6", "-1981"]
+    small = TableRow("argon", "kmol/h", "molar_flow", (0.0, 0.0), (3.0e-9, 2.0e-6))
+    assert small.texts() == ["3e-09", "2e-06"]  # small but not round-off: kept
+
+
+def test_the_make_up_gas_enthalpy_flow_shows_as_zero(table, solution, qtbot, tmp_path):
+    # Make-up gas: hydrogen, nitrogen and argon at 25 degC; on the formation basis each has
+    # zero enthalpy at 298.15 K (elements in their standard state, CHECKS.md: nasa_gas and
+    # chemicals both give 0), so the stream's enthalpy flow is 0 up to round-off.
+    raw = solution.streams["Make-up"].enthalpy_flow(solution.basis)
+    largest = max(abs(s.enthalpy_flow(solution.basis)) for s in solution.streams.values())
+    assert abs(raw) <= ROW_FLOOR * largest
+    table.set_solution(solution, "Metric")
+    model = table.model
+    index = model.index(row_of(table, "Enthalpy flow [kW]"), column_of(table, "Make-up"))
+    assert model.data(index) == "0"
+    assert model.data(index, INTERNAL_ROLE) == raw  # the number itself is kept
+    copied = table.copy_to_clipboard().split("\n")
+    enthalpy = next(line for line in copied if line.startswith("Enthalpy flow")).split("\t")
+    assert enthalpy[1 + column_of(table, "Make-up")] == "0"
+    path = tmp_path / "streams.csv"
+    table.export_csv(str(path))
+    exported = next(
+        line for line in path.read_text("utf-8").splitlines() if line.startswith("Enthalpy flow")
+    )
+    assert exported.split(",")[1 + column_of(table, "Make-up")] == "0"
+    # the details pane's stream view shows the same text
+    case = load_case(EXAMPLE)
+    stack = QUndoStack()
+    pane = DetailsPane(lambda: case.flowsheet, stack)
+    qtbot.addWidget(pane)
+    pane.set_solution(solution)
+    pane.show_stream("Make-up")
+    texts = pane.stream_page.result_texts()
+    assert texts["Enthalpy flow [kW]"] == "0"
+    assert texts["Total molar flow [kmol/h]"] == model.data(
+        model.index(row_of(table, "Total molar flow [kmol/h]"), column_of(table, "Make-up"))
+    )

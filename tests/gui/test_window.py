@@ -150,7 +150,8 @@ def test_recycle_loop_drawn_with_the_mouse_specified_and_solved(qtbot, window, m
     entries = [text for _severity, _where, text in window.log.entries()]
     assert any("Solve solved" in text for text in entries)
     assert any("balances close" in text for text in entries)
-    assert window.status.closure_label.text().startswith("balances close (mass")
+    assert window.status.closure_label.text().startswith("balances close (largest")
+    assert "mass" in window.status.closure_label.toolTip()
     assert {item.badge for item in scene.block_items()} == {"solved"}
 
 

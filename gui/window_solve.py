@@ -1,0 +1,184 @@
+"""The main window's solving: the solve (F5) and stop (Esc), the second opinion, and
+showing a solution everywhere.
+
+Both runs go through a :class:`gui.solve_controller.SolveController` (a worker thread
+per run): the solve with ``model.solve.solve_flowsheet``, the second opinion with
+``model.second_opinion.second_opinion`` in its place. Neither edits the flowsheet, so
+the window only switches editing off while one runs.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from gui.status_line import SOLUTION_STATES, closure_text
+from units_of_measure import format_value
+
+EDIT_ACTIONS = ("new", "open", "copy", "paste", "delete", "rename", "components")
+
+
+def _second_opinion_solve(solution: Any):
+    """A ``solve(flowsheet, method, settings, callback)`` for the solve controller that
+    returns the second opinion on ``solution`` instead."""
+
+    def solve(flowsheet, _method, _settings, _callback):
+        from model.second_opinion import second_opinion
+
+        return second_opinion(flowsheet, compare_with=solution)
+
+    return solve
+
+
+def opinion_summary(opinion: Any) -> tuple[str, str]:
+    """``(severity, one line)`` for the log and the status bar."""
+    where = f" at {opinion.worst}" if opinion.worst else ""
+    difference = opinion.largest_relative_difference
+    measured = (
+        ""
+        if difference is None
+        else f"largest relative difference {format_value(difference, 2)}{where}; "
+    )
+    work = (
+        f"{opinion.evaluations} flowsheet evaluations"
+        f"{f' ({opinion.method})' if opinion.method else ''}, {opinion.seconds:.2g} s"
+    )
+    if opinion.agrees:
+        return "info", f"Second opinion agrees (tolerance {opinion.tolerance:g}): {measured}{work}"
+    if not opinion.converged:
+        return "warning", f"Second opinion did not converge: {opinion.message}; {work}"
+    return "warning", (
+        f"Second opinion does not agree (tolerance {opinion.tolerance:g}): {measured}{work}"
+    )
+
+
+class WindowSolveMixin:
+    """Solve, stop, second opinion and result display of :class:`gui.main_window.MainWindow`."""
+
+    def is_busy(self) -> bool:
+        """A solve or a second opinion is running (the flowsheet must not change)."""
+        return self.solver.is_running() or self.checker.is_running()
+
+    # ---- solve -----------------------------------------------------------------------------
+    def start_solve(self) -> None:
+        """Solve the case in the worker thread (F5); editing is off until it ends."""
+        if self.is_busy():
+            return
+        self._set_editing(False)
+        self.actions["stop"].setEnabled(True)
+        self.status.set_state("solving")
+        self.status.set_progress(None, None)
+        self.status.set_closure("")
+        self.scene.set_results(self.case.solution, self.results_current, solving=True)
+        self.log.clear()
+        self.monitor.begin_run()
+        self.solver.start(self.case.flowsheet, self.case.method, self.case.settings)
+        self.update_solve_actions()
+
+    def stop_solve(self) -> None:
+        if self.solver.is_running():
+            self.solver.stop()
+            self.show_message("Stopping at the next iteration…")
+
+    def _solve_progress(self, record) -> None:
+        residual = max(record.residuals.values()) if record.residuals else None
+        self.status.set_progress(record.iteration, residual)
+        self.monitor.add_record(record)
+
+    def _solve_finished(self, solution) -> None:
+        self.case.solution = solution
+        self._set_editing(True)
+        self.monitor.end_run(solution.convergence)
+        self._show_results(solution, current=True)
+        self.log.set_issues(solution.issues)
+        severity = "info" if solution.converged else "warning"
+        self.log.add_message(severity, f"Solve {solution.status}: {solution.message}")
+        if solution.balance is not None:
+            for line in solution.balance.lines():
+                self.log.add_message("info" if solution.balance.closes else "warning", line)
+        self._update_title()
+
+    def _solve_failed(self, message: str) -> None:
+        self._set_editing(True)
+        self.status.set_state("not converged")
+        self.log.add_message("error", f"The solve failed: {message}")
+        self.result_tabs.setCurrentWidget(self.log)
+        self.scene.set_results(self.case.solution, self.results_current)
+
+    # ---- second opinion --------------------------------------------------------------------
+    def start_second_opinion(self) -> bool:
+        """Check the current solution by solving every stream at once (worker thread)."""
+        if self.is_busy() or self.case.solution is None or not self.results_current:
+            self.show_message("Solve the flowsheet first: the second opinion checks a solution.")
+            return False
+        self._set_editing(False)
+        self.show_message("Second opinion: solving every stream at once…", 600_000)
+        self.checker.start(
+            self.case.flowsheet,
+            self.case.method,
+            self.case.settings,
+            solve=_second_opinion_solve(self.case.solution),
+        )
+        self.update_solve_actions()
+        return True
+
+    def _second_opinion_finished(self, opinion) -> None:
+        self.last_second_opinion = opinion
+        self._set_editing(True)
+        severity, text = opinion_summary(opinion)
+        self.log.add_message(severity, text)
+        self.show_message(text, 20_000)
+
+    def _second_opinion_failed(self, message: str) -> None:
+        self._set_editing(True)
+        self.log.add_message("error", f"The second opinion failed: {message}")
+        self.show_message(f"The second opinion failed: {message}", 20_000)
+
+    # ---- showing results -------------------------------------------------------------------
+    def _show_results(self, solution, current: bool) -> None:
+        """Put a solution (or none) in the stream table, diagram, details and status line."""
+        self.results_current = current and solution is not None
+        self.update_solve_actions()
+        unit_system = self.case.unit_system
+        self.stream_table.set_solution(solution, unit_system, list(self.case.flowsheet.streams))
+        self.scene.set_unit_system(unit_system)
+        self.scene.set_results(solution, self.results_current)
+        self.details.set_solution(solution)
+        if solution is None:
+            self.status.set_progress(None, None)
+            self.status.set_closure("")
+            self._refresh_idle_state()
+            return
+        self.status.set_state(SOLUTION_STATES.get(solution.status, "not converged"))
+        records = solution.convergence.history.records if solution.convergence else []
+        residual = (
+            max(records[-1].residuals.values()) if records and records[-1].residuals else None
+        )
+        self.status.set_progress(
+            solution.convergence.iterations if solution.convergence else solution.passes, residual
+        )
+        self.status.set_closure(*closure_text(solution.balance))
+
+    def _set_editing(self, enabled: bool) -> None:
+        """Editing on or off (off while a solve or a second opinion runs)."""
+        self.editor.set_enabled(enabled)
+        self.shelf.setEnabled(enabled)
+        self.details.setEnabled(enabled)
+        self.actions.method_combo.setEnabled(enabled)
+        self.actions.method_group.setEnabled(enabled)
+        for name in EDIT_ACTIONS:
+            self.actions[name].setEnabled(enabled)
+        self.actions.recent_menu.setEnabled(enabled)
+        self.actions["undo"].setEnabled(enabled and self.undo_stack.canUndo())
+        self.actions["redo"].setEnabled(enabled and self.undo_stack.canRedo())
+        if enabled:
+            self.actions["stop"].setEnabled(False)
+        self.update_solve_actions()
+
+    def update_solve_actions(self) -> None:
+        """Solve when nothing runs; second opinion when, besides, the results are current."""
+        idle = not self.is_busy()
+        self.actions["solve"].setEnabled(idle)
+        self.actions["second_opinion"].setEnabled(
+            idle and self.case.solution is not None and self.results_current
+        )
+        self.actions["export_csv"].setEnabled(self.case.solution is not None)
