@@ -196,7 +196,7 @@ def convergence_lines(solution: Any) -> list[str]:
     """Per tear: iterations, final residual and the diagnosis advice; or why there is none."""
     result = solution.convergence
     lines = [
-        f"Status: {solution.status}. {solution.message}".rstrip(),
+        f"Status: {solution.message}".rstrip(),
         f"Flowsheet passes: {solution.passes}",
     ]
     if result is None:
