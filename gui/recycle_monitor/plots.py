@@ -31,6 +31,10 @@ def _styled_plot(title: str, left: str) -> pg.PlotWidget:
     item.setLabel("left", left, color=AXIS_COLOUR)
     item.setLabel("bottom", "iteration", color=AXIS_COLOUR)
     item.showGrid(x=True, y=True, alpha=0.15)
+    # A long run has thousands of iterations: draw only what fits the view, thinned to
+    # the peaks of each pixel column, so a redraw stays short while the solve goes on.
+    item.setDownsampling(auto=True, mode="peak")
+    item.setClipToView(True)
     for name in ("left", "bottom"):
         axis = item.getAxis(name)
         axis.setPen(pg.mkPen(AXIS_COLOUR))
