@@ -160,6 +160,7 @@ class ConvergencePlots:
         """Push the collected numbers into the existing curves."""
         for series in self.series.values():
             x = np.asarray(series.iterations, dtype=float)
+            _symbols_while_few(series, len(x))
             series.residual_curve.setData(
                 x, np.asarray(series.residuals, dtype=float), connect="finite"
             )
@@ -184,6 +185,18 @@ class ConvergencePlots:
             lines.append(line)
         self.markers[iteration] = (lines[0], lines[1])
         return True
+
+
+#: Above this many iterations a tear's curves are drawn as lines without point symbols:
+#: thousands of symbols make each refresh slow enough to stall the window.
+SYMBOL_LIMIT = 200
+
+
+def _symbols_while_few(series: TearSeries, count: int) -> None:
+    symbol = "o" if count <= SYMBOL_LIMIT else None
+    for curve in (series.residual_curve, series.q_curve):
+        if curve.opts.get("symbol") != symbol:
+            curve.setSymbol(symbol)
 
 
 def _label_options(above: bool) -> dict:
