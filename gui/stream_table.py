@@ -33,6 +33,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from model import report
 from model.cautions import CAUTIONS
 from units_of_measure import UNIT_SYSTEMS, format_value, from_internal
 
@@ -88,38 +89,37 @@ def stream_names(solution: Any, order: list[str] | None = None) -> list[str]:
 
 
 def build_rows(solution: Any, unit_system: str, names: list[str] | None = None) -> list[TableRow]:
-    """The stream table's rows for ``names`` (default: every stream of the solution)."""
+    """The stream table's rows for ``names`` (default: every stream of the solution).
+
+    The quantities come from :func:`model.report.stream_table`, the one place that
+    computes the stream table (the command line prints the same); here they are only
+    grouped under headings for the window.
+    """
     if solution is None:
         return []
     names = stream_names(solution) if names is None else names
-    system = UNIT_SYSTEMS[unit_system]
-    states = [solution.streams[name] for name in names]
-    basis = solution.basis
-
-    def row(label: str, kind: str | None, values: list[Any]) -> TableRow:
-        if kind is None:
-            return TableRow(label, "", None, tuple(values), tuple(values))
-        unit = system.unit_for(kind)
-        shown = tuple(from_internal(v, kind, unit) for v in values)
-        return TableRow(label, unit, kind, tuple(float(v) for v in values), shown)
-
-    rows = [
-        row("Phase", None, [s.phase for s in states]),
-        row("Temperature", "temperature", [s.T for s in states]),
-        row("Pressure", "pressure", [s.P for s in states]),
-        row("Total molar flow", "molar_flow", [s.total_molar_flow() for s in states]),
-        row("Mass flow", "mass_flow", [s.mass_flow(basis) for s in states]),
-        row("Enthalpy flow", "power", [s.enthalpy_flow(basis) for s in states]),
-        TableRow(f"Component molar flows [{system.unit_for('molar_flow')}]"),
-    ]
+    table = report.stream_table(solution, unit_system, names)
+    by_label = {row.label: row for row in table.rows}
     components = list(solution.component_names)
-    fractions = [s.mole_fractions() for s in states]
-    for index, name in enumerate(components):
-        rows.append(row(f"  {name}", "molar_flow", [s.flows[index] for s in states]))
+    flow_unit = UNIT_SYSTEMS[unit_system].unit_for("molar_flow")
+    rows = [
+        _window_row(by_label[label], label)
+        for label in ("Phase", "Temperature", "Pressure", "Total molar flow", "Mass flow")
+    ]
+    rows.append(_window_row(by_label["Enthalpy flow"], "Enthalpy flow"))
+    rows.append(TableRow(f"Component molar flows [{flow_unit}]"))
+    rows += [_window_row(by_label[f"Molar flow {c}"], f"  {c}") for c in components]
     rows.append(TableRow("Mole fractions"))
-    for index, name in enumerate(components):
-        rows.append(row(f"  {name}", "fraction", [f[index] for f in fractions]))
+    rows += [_window_row(by_label[f"Mole fraction {c}"], f"  {c}") for c in components]
     return rows
+
+
+def _window_row(row: report.TableRow, label: str) -> TableRow:
+    """A model table row as the window shows it: values also in the display unit."""
+    if not row.kind:
+        return TableRow(label, "", None, row.values, row.values)
+    shown = tuple(from_internal(value, row.kind, row.unit_or_one) for value in row.values)
+    return TableRow(label, row.unit, row.kind, row.values, shown)
 
 
 def shown_text(value: Any, floor: float = 0.0) -> str:
