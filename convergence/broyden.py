@@ -18,9 +18,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from convergence.points import Evaluated, Step
 from convergence.problem import TearLayout
 from convergence.settings import SettingsSnapshot
-from convergence.steps import Evaluated, Step
 
 MEMORY = 30
 GROWTH_LIMIT = 2.0

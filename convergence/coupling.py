@@ -16,15 +16,11 @@ tear's dominant slope. A decoupled variable keeps Wegstein's per-variable step e
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
-
 import numpy as np
 
 from convergence.adaptive import steady
+from convergence.points import Evaluated
 from convergence.problem import TearLayout
-
-if TYPE_CHECKING:
-    from convergence.steps import Evaluated
 
 
 class DominantSlopeQ:

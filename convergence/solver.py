@@ -16,9 +16,10 @@ from convergence.broyden import BroydenSteps
 from convergence.diagnosis import TearDiagnosis, diagnose_tears
 from convergence.errors import ConvergenceInputError
 from convergence.history import ConvergenceHistory, Event, IterationRecord, QStats
+from convergence.points import Evaluated, Step
 from convergence.problem import FixedPointProblem, TearLayout
 from convergence.settings import SettingsSnapshot, SolverSettings
-from convergence.steps import BoundedWegstein, DirectSubstitution, Evaluated, Step
+from convergence.steps import BoundedWegstein, DirectSubstitution
 from convergence.stopping import ErrorEstimator
 
 METHODS: dict[str, str] = {

@@ -14,8 +14,8 @@ from polykin.math import fixpoint_dem
 
 from convergence import FixedPointProblem, SolverSettings, solve_fixed_point
 from convergence.coupling import DominantSlopeQ
+from convergence.points import Evaluated
 from convergence.problem import TearLayout
-from convergence.steps import Evaluated
 
 # A tear of three strongly coupled variables: eigenvalues 1.1 (direct substitution
 # diverges along that mode), 0.4 and 0.6, with eigenvectors far from the axes (our own).
