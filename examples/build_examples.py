@@ -2,7 +2,7 @@
 
 Run ``python examples/build_examples.py`` to regenerate the ``*.loop.json`` files from
 the definitions below; the committed files are what users open. Each scenario is a
-function returning a :class:`model.case.Case`; the tests solve every one of them.
+function returning a :class:`model.case.document.Case`; the tests solve every one of them.
 """
 
 from __future__ import annotations
@@ -12,11 +12,11 @@ from collections.abc import Callable
 from pathlib import Path
 
 from convergence import SolverSettings
-from model.case import Case
-from model.case_file import case_to_json
-from model.components import lookup_component
-from model.flowsheet import Flowsheet
-from model.spec_values import ComponentAmounts, Reaction, StreamEstimate, TypedQuantity
+from model.case.document import Case
+from model.case.file import case_to_json
+from model.flowsheet.document import Flowsheet
+from model.flowsheet.spec_values import ComponentAmounts, Reaction, StreamEstimate, TypedQuantity
+from model.properties.components import lookup_component
 
 EXAMPLES_FOLDER = Path(__file__).resolve().parent
 INVENTED = "Invented scenario for demonstration; the numbers are made up, not plant data."

@@ -7,7 +7,7 @@ from html import escape
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QDialog, QDialogButtonBox, QLabel, QVBoxLayout, QWidget
 
-from model.cautions import CAUTIONS
+from model.report.cautions import CAUTIONS
 
 METHOD_NOTES = (
     "Recycles are closed by bounded Wegstein acceleration (J. H. Wegstein, "

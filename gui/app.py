@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import gc
-import importlib
 import sys
 
 from PySide6.QtWidgets import QApplication
@@ -47,12 +45,3 @@ def run_app(case_path: str | None = None) -> int:
     status = app.exec()
     del window
     return int(status)
-
-
-def preload_solver_modules() -> None:
-    """Import ``model.solve``, then move every object alive now out of the cyclic garbage
-    collector's way (``gc.freeze``): a full collection then takes milliseconds, not the
-    ~100 ms pause that would otherwise hit the window in the middle of a solve."""
-    importlib.import_module("model.solve")
-    gc.collect()
-    gc.freeze()

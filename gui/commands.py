@@ -19,7 +19,7 @@ from typing import Any
 
 from PySide6.QtGui import QUndoCommand, QUndoStack
 
-from model.flowsheet import Block, Flowsheet, Stream
+from model.flowsheet.document import Block, Flowsheet, Stream
 
 
 class _Command(QUndoCommand):

@@ -13,8 +13,8 @@ from typing import Any
 from PySide6.QtGui import QUndoCommand, QUndoStack
 
 from model.errors import InputError
-from model.flowsheet import Flowsheet
-from model.spec_values import StreamEstimate
+from model.flowsheet.document import Flowsheet
+from model.flowsheet.spec_values import StreamEstimate
 
 
 class SetSpecCommand(QUndoCommand):
@@ -38,7 +38,7 @@ class SetSpecCommand(QUndoCommand):
 
 
 class AddComponentCommand(QUndoCommand):
-    """Add a component (``model.components.Component``) at the end of the case's list."""
+    """Add a component (``model.properties.components.Component``) at the end of the case's list."""
 
     def __init__(self, flowsheet: Flowsheet, component: Any) -> None:
         super().__init__(f"Add component {component.name}")
@@ -156,7 +156,7 @@ def checked_spec_value(flowsheet: Flowsheet, block_name: str, field: str, value:
     ``None`` (clearing an optional spec) is always accepted here; the model reports a
     missing required spec when the flowsheet is validated.
     """
-    from model.validation import check_spec_value
+    from model.flowsheet.spec_checks import check_spec_value
 
     block = flowsheet.block(block_name)
     if value is None:

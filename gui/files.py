@@ -17,15 +17,13 @@ import os
 import time
 import uuid
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import Any
 
 from PySide6.QtCore import QLockFile, QObject, QSettings, QStandardPaths, QTimer, Signal
 from PySide6.QtWidgets import QFileDialog, QMessageBox
 
+from gui.window_host import CaseHost
 from model.errors import LoopwrightError
-
-if TYPE_CHECKING:
-    from gui.main_window import MainWindow
 
 CASE_FILTER = "Loopwright cases (*.loop.json);;All files (*)"
 CASE_SUFFIX = ".loop.json"
@@ -49,7 +47,7 @@ class CaseFiles(QObject):
 
     changed = Signal()
 
-    def __init__(self, window: MainWindow, autosave_seconds: float = AUTOSAVE_SECONDS) -> None:
+    def __init__(self, window: CaseHost, autosave_seconds: float = AUTOSAVE_SECONDS) -> None:
         super().__init__(window)
         self._window = window
         self.path: str | None = None
@@ -119,7 +117,7 @@ class CaseFiles(QObject):
 
     # ---- new, open, save -----------------------------------------------------------
     def new_case(self) -> bool:
-        from model.case import Case
+        from model.case.document import Case
 
         if not self.maybe_save():
             return False
@@ -140,7 +138,7 @@ class CaseFiles(QObject):
 
     def open_path(self, path: str) -> bool:
         """Open ``path`` without prompting; a bad file leaves the window as it was."""
-        from model.case_file import load_case
+        from model.case.file import load_case
 
         try:
             case = load_case(path)
@@ -157,7 +155,7 @@ class CaseFiles(QObject):
 
     def save_as(self, path: str | None = None) -> bool:
         """Save to ``path`` (or ask for one); ``.loop.json`` is added when missing."""
-        from model.case_file import save_case
+        from model.case.file import save_case
 
         if path is None:
             suggestion = self.path or str(Path(self._start_folder()) / f"untitled{CASE_SUFFIX}")
@@ -232,7 +230,7 @@ class CaseFiles(QObject):
     def autosave_now(self) -> bool:
         """Write the case to this session's recovery file if it changed since the last
         save or autosave; remove the recovery file when nothing is unsaved."""
-        from model.case_file import save_case
+        from model.case.file import save_case
 
         if not self.is_modified():
             self._remove_recovery_files()
@@ -289,7 +287,7 @@ class CaseFiles(QObject):
 
     def offer_recovery(self) -> bool:
         """Offer each orphaned recovery file, newest first; True when one was opened."""
-        from model.case_file import load_case
+        from model.case.file import load_case
 
         for case_path in self.orphaned_recoveries():
             meta = _read_meta(case_path)

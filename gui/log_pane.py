@@ -57,7 +57,7 @@ class LogPane(QWidget):
         self.tree.itemActivated.connect(self._on_clicked)
 
     def set_issues(self, issues: list[Any]) -> None:
-        """Replace the flowsheet's issues (``model.validation.Issue``); messages stay."""
+        """Replace the flowsheet's issues (``model.validation.issue.Issue``); messages stay."""
         for item in self._issue_items:
             self.tree.takeTopLevelItem(self.tree.indexOfTopLevelItem(item))
         self._issue_items = []

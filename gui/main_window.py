@@ -1,6 +1,6 @@
 """Loopwright's main window: block shelf, diagram, details pane, result tabs, status line.
 
-The window holds one :class:`model.case.Case`. Every edit of the flowsheet goes through
+The window holds one :class:`model.case.document.Case`. Every edit of the flowsheet goes through
 the undo stack (structure commands from the diagram editor, spec commands from the
 details pane); the views mirror the case through its signals. A solve runs in the
 solve controller's worker thread while editing is switched off.
@@ -20,10 +20,11 @@ from gui.diagram.scene import DiagramScene
 from gui.diagram.shelf import BlockShelf
 from gui.diagram.view import DiagramView
 from gui.files import AUTOSAVE_SECONDS, CaseFiles
+from gui.solve_controller import preload_solver_modules
 from gui.status_line import StatusLine
 from gui.window_actions import build_actions, fill_recent_menu
 from gui.window_solve import WindowSolveMixin
-from model.case import Case
+from model.case.document import Case
 
 
 def default_window_size() -> tuple[int, int]:
@@ -156,8 +157,6 @@ class MainWindow(WindowSolveMixin, QMainWindow):
     def _preload_solver(self) -> None:
         """Import the solve's modules (networkx, scipy.optimize: about half a second) in a
         background thread while the user looks at the window, not when F5 is pressed."""
-        from gui.app import preload_solver_modules
-
         threading.Thread(target=preload_solver_modules, name="preload-solver", daemon=True).start()
 
     def _size_docks(self) -> None:
@@ -230,7 +229,7 @@ class MainWindow(WindowSolveMixin, QMainWindow):
             QTimer.singleShot(0, self, self._refresh_idle_state)
 
     def _refresh_idle_state(self) -> None:
-        from model.validation import block_states
+        from model.validation.validate import block_states
 
         self._state_refresh_pending = False
         if self.solver.is_running() or self.results_current:

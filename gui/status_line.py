@@ -11,7 +11,7 @@ from PySide6.QtCore import Qt, QTimer
 from PySide6.QtGui import QFontMetrics, QResizeEvent
 from PySide6.QtWidgets import QLabel, QSizePolicy, QStatusBar
 
-from model.cautions import CAUTION_LINE, CAUTIONS
+from model.report.cautions import CAUTION_LINE, CAUTIONS
 from units_of_measure import format_value
 
 STATES = ("not solved", "solving", "solved", "not converged", "needs input")

@@ -34,7 +34,7 @@ from PySide6.QtWidgets import (
 )
 
 from model import report
-from model.cautions import CAUTIONS
+from model.report.cautions import CAUTIONS
 from units_of_measure import UNIT_SYSTEMS, format_value, from_internal
 
 VALUE_ROLE = Qt.ItemDataRole.UserRole
@@ -91,7 +91,7 @@ def stream_names(solution: Any, order: list[str] | None = None) -> list[str]:
 def build_rows(solution: Any, unit_system: str, names: list[str] | None = None) -> list[TableRow]:
     """The stream table's rows for ``names`` (default: every stream of the solution).
 
-    The quantities come from :func:`model.report.stream_table`, the one place that
+    The quantities come from :func:`model.report.table.stream_table`, the one place that
     computes the stream table (the command line prints the same); here they are only
     grouped under headings for the window.
     """

@@ -9,17 +9,14 @@ diagram edit.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING
 
 from PySide6.QtCore import Qt
 from PySide6.QtGui import QAction, QActionGroup, QKeySequence
 from PySide6.QtWidgets import QComboBox, QLabel, QMenu, QToolBar
 
 from convergence import METHODS
+from gui.window_host import ActionHost
 from units_of_measure import UNIT_SYSTEMS
-
-if TYPE_CHECKING:
-    from gui.main_window import MainWindow
 
 
 @dataclass
@@ -54,7 +51,7 @@ def _action(
     return action
 
 
-def build_actions(window: MainWindow) -> WindowActions:
+def build_actions(window: ActionHost) -> WindowActions:
     """Create the actions, menus and toolbar of ``window`` and return them."""
     result = WindowActions()
     a = result.actions
@@ -130,7 +127,7 @@ def build_actions(window: MainWindow) -> WindowActions:
     return result
 
 
-def _build_choosers(window: MainWindow, result: WindowActions) -> None:
+def _build_choosers(window: ActionHost, result: WindowActions) -> None:
     result.method_combo = QComboBox()
     result.method_combo.setToolTip("Convergence method for the recycle loops")
     result.method_group = QActionGroup(window)
@@ -157,7 +154,7 @@ def _build_choosers(window: MainWindow, result: WindowActions) -> None:
     result.unit_group.triggered.connect(lambda action: window.set_unit_system(action.data()))
 
 
-def _build_menus(window: MainWindow, result: WindowActions) -> None:
+def _build_menus(window: ActionHost, result: WindowActions) -> None:
     a = result.actions
     bar = window.menuBar()
     file_menu = bar.addMenu("&File")
@@ -189,7 +186,7 @@ def _build_menus(window: MainWindow, result: WindowActions) -> None:
     help_menu.addAction(a["about"])
 
 
-def _build_toolbar(window: MainWindow, result: WindowActions) -> None:
+def _build_toolbar(window: ActionHost, result: WindowActions) -> None:
     a = result.actions
     toolbar = QToolBar("Main toolbar", window)
     toolbar.setObjectName("mainToolbar")
@@ -209,7 +206,7 @@ def _build_toolbar(window: MainWindow, result: WindowActions) -> None:
     result.toolbar = toolbar
 
 
-def fill_recent_menu(window: MainWindow, result: WindowActions) -> None:
+def fill_recent_menu(window: ActionHost, result: WindowActions) -> None:
     """Rebuild File → Open Recent from the saved list."""
     menu = result.recent_menu
     menu.clear()

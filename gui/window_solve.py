@@ -2,8 +2,8 @@
 showing a solution everywhere.
 
 Both runs go through a :class:`gui.solve_controller.SolveController` (a worker thread
-per run): the solve with ``model.solve.solve_flowsheet``, the second opinion with
-``model.second_opinion.second_opinion`` in its place. Neither edits the flowsheet, so
+per run): the solve with ``model.solve.driver.solve_flowsheet``, the second opinion with
+``model.solve.second_opinion_solve.second_opinion`` in its place. Neither edits the flowsheet, so
 the window only switches editing off while one runs.
 """
 
@@ -22,7 +22,7 @@ def _second_opinion_solve(solution: Any):
     returns the second opinion on ``solution`` instead."""
 
     def solve(flowsheet, _method, _settings, _callback):
-        from model.second_opinion import second_opinion
+        from model.solve.second_opinion_solve import second_opinion
 
         return second_opinion(flowsheet, compare_with=solution)
 

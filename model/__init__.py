@@ -1,1 +1,7 @@
-"""Model: components, streams, blocks, flowsheet, solve, case files (no Qt)."""
+"""Model: properties, the flowsheet document, validation, block calculations, the solve,
+reports and case files (no Qt).
+
+Subpackages, each standing above the ones before it (import-linter keeps the order):
+``properties`` → ``flowsheet`` → ``validation`` and ``blocks`` → ``solve`` → ``report``
+and ``case`` → ``cli``. ``model.errors`` is below them all.
+"""

@@ -3,7 +3,7 @@
 ``solve CASE`` loads a case file, solves it and prints the convergence summary, the
 stream table and block duties in the chosen unit system, the balance closures and the
 cautions (or, with ``--json``, one JSON object). With ``--second-opinion`` it then
-solves the flowsheet again with every stream at once (:mod:`model.second_opinion`) and
+solves the flowsheet again with every stream at once (:mod:`model.solve.second_opinion_solve`) and
 prints the largest relative difference from the sequential answer (in JSON:
 ``"second_opinion": {"agrees", "largest_relative_difference", "message"}``).
 ``--stop-on`` chooses the stopping rule ("estimated error" or "residual") and
@@ -30,11 +30,12 @@ from typing import Any
 
 from convergence import METHODS
 from convergence.settings import STOP_RULES
-from model.case import Case
-from model.case_file import load_case
+from model.case.document import Case
+from model.case.file import load_case
 from model.errors import LoopwrightError
-from model.report import solution_report, solution_summary, stream_table, stream_table_csv
-from model.second_opinion import AGREEMENT_TOLERANCE, SecondOpinion, second_opinion
+from model.report.table import stream_table, stream_table_csv
+from model.report.text import solution_report, solution_summary
+from model.solve.second_opinion_solve import AGREEMENT_TOLERANCE, SecondOpinion, second_opinion
 from units_of_measure import UNIT_SYSTEMS
 
 EXIT_CONVERGED = 0

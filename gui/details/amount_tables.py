@@ -6,7 +6,7 @@ from __future__ import annotations
 from PySide6.QtCore import QSignalBlocker
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QVBoxLayout, QWidget
 
-from model.spec_values import ComponentAmounts
+from model.flowsheet.spec_values import ComponentAmounts
 from units_of_measure import (
     UnitError,
     display_units,

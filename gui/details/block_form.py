@@ -15,8 +15,8 @@ from PySide6.QtGui import QUndoStack
 from PySide6.QtWidgets import QFormLayout, QGroupBox, QLabel, QVBoxLayout, QWidget
 
 from gui.commands_specs import push_spec_change
-from model.block_kinds import SpecField
 from model.errors import LoopwrightError
+from model.flowsheet.kinds import SpecField
 
 from .amount_tables import ComponentAmountsEditor, PortFractionsEditor
 from .choice_editors import ChoiceEditor, FractionEditor, PortEditor
@@ -135,7 +135,7 @@ class BlockForm(QWidget):
                 self.form.setRowVisible(index - 1, visible)
 
     def _update_state(self) -> None:
-        from model.validation import block_state
+        from model.validation.validate import block_state
 
         try:
             state = block_state(self.context.flowsheet, self.context.block_name)

@@ -1,5 +1,5 @@
 """Define a component by hand: name, formula and the constants of the ideal property basis,
-each typed with its unit, checked by ``model.components.define_component``.
+each typed with its unit, checked by ``model.properties.components.define_component``.
 
 A refused entry is marked with the model's message and keeps its text; an accepted
 component is added through the undo stack (:class:`gui.commands_specs.AddComponentCommand`)
@@ -22,7 +22,7 @@ from PySide6.QtWidgets import (
 
 from gui.commands_specs import AddComponentCommand
 from model.errors import InputError
-from model.flowsheet import Flowsheet
+from model.flowsheet.document import Flowsheet
 from units_of_measure import UnitError
 
 from .spec_editors import INVALID_COLOR, EditorContext, QuantityEditor, set_invalid_style
@@ -110,8 +110,8 @@ class ComponentForm(QGroupBox):
     # ---- defining -----------------------------------------------------------------
     def define(self) -> bool:
         """Check every entry with the model and add the component; mark what is refused."""
-        from model.components import USER_SOURCE, define_component
-        from model.cp_correlations import POLYNOMIAL, CpCorrelation
+        from model.properties.components import USER_SOURCE, define_component
+        from model.properties.cp_correlations import POLYNOMIAL, CpCorrelation
 
         self._clear_marks()
         try:

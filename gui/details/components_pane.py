@@ -21,7 +21,7 @@ from PySide6.QtWidgets import (
 
 from gui.commands_specs import AddComponentCommand, RemoveComponentCommand
 from model.errors import ComponentNotFoundError, InputError
-from model.flowsheet import Flowsheet
+from model.flowsheet.document import Flowsheet
 from units_of_measure import UNIT_SYSTEMS, format_quantity
 
 from .component_form import ComponentForm
@@ -190,7 +190,7 @@ class ComponentsPane(QWidget):
             self.query_edit.setText(text)
         if not text:
             return False
-        from model.components import lookup_component
+        from model.properties.components import lookup_component
 
         try:
             component = lookup_component(text)

@@ -15,7 +15,7 @@ from PySide6.QtCore import Qt
 from PySide6.QtGui import QUndoStack
 from PySide6.QtWidgets import QLabel, QScrollArea, QVBoxLayout, QWidget
 
-from model.flowsheet import Flowsheet
+from model.flowsheet.document import Flowsheet
 
 from .block_form import BlockForm
 from .components_pane import ComponentsPane

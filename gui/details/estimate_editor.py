@@ -1,6 +1,6 @@
 """The initial estimate of a stream, used as the solver's starting point when it tears it.
 
-The model keeps the estimate in internal units (``model.spec_values.StreamEstimate``:
+The model keeps the estimate in internal units (``model.flowsheet.spec_values.StreamEstimate``:
 mol/s, K, Pa); here each value is typed with a unit and shown in the unit its editor
 has chosen (first the unit system's). Every change goes through the undo stack as one
 :class:`gui.commands_specs.SetEstimateCommand`; choosing another unit only changes how
@@ -16,8 +16,8 @@ from PySide6.QtWidgets import QGroupBox, QHBoxLayout, QLabel, QPushButton, QVBox
 
 from gui.commands_specs import push_estimate_change
 from model.errors import InputError, LoopwrightError
-from model.flowsheet import Flowsheet
-from model.spec_values import ComponentAmounts, StreamEstimate, TypedQuantity
+from model.flowsheet.document import Flowsheet
+from model.flowsheet.spec_values import ComponentAmounts, StreamEstimate, TypedQuantity
 from units_of_measure import UnitError, from_internal, resolve_unit, to_internal
 
 from .amount_tables import ComponentAmountsEditor, flow_kind

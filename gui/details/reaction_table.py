@@ -20,7 +20,7 @@ from PySide6.QtCore import QSignalBlocker, Qt
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
 
 from model.errors import LoopwrightError
-from model.spec_values import Reaction
+from model.flowsheet.spec_values import Reaction
 from units_of_measure import UnitError, format_value, from_internal
 
 from .spec_editors import EditorContext, number_text
@@ -274,7 +274,7 @@ class ReactionTable(TableEditor):
         self.summary_label.setText("\n".join(lines))
 
     def _balance_function(self):
-        from model.validation import element_balance_function
+        from model.flowsheet.spec_checks import element_balance_function
 
         try:
             return element_balance_function(self.context.flowsheet)
@@ -293,7 +293,7 @@ class ReactionTable(TableEditor):
         return check, self._heat_text(stoichiometry)
 
     def _heat_text(self, stoichiometry: dict[str, float]) -> str:
-        from model.thermo import PropertyBasis
+        from model.properties.enthalpy import PropertyBasis
 
         components = self.context.flowsheet.components
         try:

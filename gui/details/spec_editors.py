@@ -26,8 +26,8 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from model.flowsheet import Block, Flowsheet
-from model.spec_values import TypedQuantity
+from model.flowsheet.document import Block, Flowsheet
+from model.flowsheet.spec_values import TypedQuantity
 from units_of_measure import (
     UNIT_SYSTEMS,
     UnitError,

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from PySide6.QtWidgets import QHBoxLayout, QPushButton, QVBoxLayout, QWidget
 
-from model.spec_values import ComponentAmounts
+from model.flowsheet.spec_values import ComponentAmounts
 from units_of_measure import UnitError, format_value, parse_quantity
 
 from .spec_editors import EditorContext, number_text

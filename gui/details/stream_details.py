@@ -20,7 +20,7 @@ from PySide6.QtWidgets import (
 
 from gui.commands_specs import SetPreferredTearCommand
 from gui.stream_table import build_rows, stream_names
-from model.flowsheet import Flowsheet
+from model.flowsheet.document import Flowsheet
 
 from .estimate_editor import EstimateEditor
 

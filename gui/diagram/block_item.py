@@ -14,7 +14,7 @@ from PySide6.QtGui import QBrush, QFont, QFontMetricsF, QPainter, QPainterPath, 
 from PySide6.QtWidgets import QGraphicsEllipseItem, QGraphicsItem, QStyleOptionGraphicsItem
 
 from gui.diagram import look
-from model.flowsheet import Block
+from model.flowsheet.document import Block
 
 # Port names shown beside the port for kinds whose ports differ in meaning.
 PORT_LABELS = {

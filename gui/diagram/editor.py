@@ -20,7 +20,7 @@ from gui.diagram import look
 from gui.diagram.scene import DiagramScene
 from gui.diagram.view import DiagramView
 from model.errors import LoopwrightError
-from model.flowsheet import Flowsheet
+from model.flowsheet.document import Flowsheet
 
 PASTE_OFFSET = 40.0
 

@@ -18,7 +18,7 @@ from gui.diagram import look
 from gui.diagram.block_item import BlockItem, PortItem
 from gui.diagram.result_text import describe_block, describe_stream
 from gui.diagram.stream_item import StreamItem, orthogonal_route
-from model.flowsheet import Block, Flowsheet, Stream
+from model.flowsheet.document import Block, Flowsheet, Stream
 
 DRAG_THRESHOLD = 4.0
 MINIMUM_RECT = QRectF(-2000, -1500, 4000, 3000)
@@ -226,7 +226,7 @@ class DiagramScene(QGraphicsScene):
 
     def refresh_states(self) -> None:
         """Recompute every badge, tear mark and hover text (coalesced after edits)."""
-        from model.validation import block_states
+        from model.validation.validate import block_states
 
         self._refresh_pending = False
         if self._flowsheet is None:

@@ -11,7 +11,7 @@ from PySide6.QtGui import QIcon, QPainter, QPixmap
 from PySide6.QtWidgets import QAbstractItemView, QListWidget, QListWidgetItem
 
 from gui.diagram import look
-from model.block_kinds import BLOCK_KINDS
+from model.flowsheet.kinds import BLOCK_KINDS
 
 BLOCK_KIND_MIME = "application/x-loopwright-block-kind"
 GLYPH_SIZE = 22

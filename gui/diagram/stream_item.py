@@ -19,7 +19,7 @@ from PySide6.QtGui import (
 from PySide6.QtWidgets import QGraphicsItem, QStyleOptionGraphicsItem
 
 from gui.diagram import look
-from model.flowsheet import Stream
+from model.flowsheet.document import Stream
 
 
 @cache

@@ -1,7 +1,7 @@
 """Block calculations: one module per block kind, and the registry the solve calls.
 
 Each kind has a ``build_<kind>(common, specs, basis)`` that turns internal specs (floats
-in internal units, made once by :mod:`model.compile`) into a compiled block of numpy
+in internal units, made once by :mod:`model.solve.compile`) into a compiled block of numpy
 arrays, and a ``compute_<kind>(block, inlets, basis, strict)`` that maps inlet stream
 states to outlet stream states and the block's results. ``strict`` is False while a
 recycle iterates: a transient shortfall (a reactant not yet recycled) is then limited
@@ -21,7 +21,7 @@ from model.blocks.mixer import build_mixer, compute_mixer
 from model.blocks.reactor import build_reactor, compute_reactor
 from model.blocks.separator import build_separator, compute_separator
 from model.blocks.splitter import build_splitter, compute_splitter
-from model.stream_state import StreamState
+from model.properties.stream_state import StreamState
 
 __all__ = ["BlockOutput", "CompiledBlock", "BUILDERS", "COMPUTERS", "build_block", "compute_block"]
 

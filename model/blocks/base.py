@@ -1,7 +1,7 @@
 """What every compiled block shares, and the energy arithmetic several kinds use.
 
 A compiled block holds its specs as internal floats and numpy arrays (converted once
-by :mod:`model.compile`) and the indices of its streams in the solve's stream list,
+by :mod:`model.solve.compile`) and the indices of its streams in the solve's stream list,
 so a pass does no unit conversion and no look-up by name.
 """
 
@@ -11,10 +11,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
-from model.solution import BlockResult
-from model.stream_state import StreamState
-from model.thermo import T_SEARCH_MAX, T_SEARCH_MIN
+from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
+from model.properties.stream_state import StreamState
 
 #: Relative size below which a negative flow is rounding, silently set to zero.
 ROUNDING = 1e-12

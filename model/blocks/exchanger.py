@@ -15,7 +15,6 @@ import math
 from dataclasses import dataclass
 from typing import Any
 
-from model.block_kinds import AS_INLET
 from model.blocks.base import (
     BlockOutput,
     CompiledBlock,
@@ -23,9 +22,10 @@ from model.blocks.base import (
     outlet_pressure,
     temperature_for_enthalpy,
 )
+from model.blocks.result import BlockResult
 from model.errors import CalculationError
-from model.solution import BlockResult
-from model.stream_state import StreamState
+from model.flowsheet.kinds import AS_INLET
+from model.properties.stream_state import StreamState
 
 #: Relative difference of the end differences below which the LMTD is their mean.
 EQUAL_ENDS = 1e-6

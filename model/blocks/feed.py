@@ -8,8 +8,8 @@ from typing import Any
 import numpy as np
 
 from model.blocks.base import BlockOutput, CompiledBlock
-from model.solution import BlockResult
-from model.stream_state import StreamState
+from model.blocks.result import BlockResult
+from model.properties.stream_state import StreamState
 
 
 @dataclass(kw_only=True)

@@ -5,7 +5,6 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from model.block_kinds import AS_INLET
 from model.blocks.base import (
     BlockOutput,
     CompiledBlock,
@@ -13,8 +12,9 @@ from model.blocks.base import (
     enthalpy,
     outlet_pressure,
 )
-from model.solution import BlockResult
-from model.stream_state import StreamState
+from model.blocks.result import BlockResult
+from model.flowsheet.kinds import AS_INLET
+from model.properties.stream_state import StreamState
 
 
 @dataclass(kw_only=True)

@@ -14,7 +14,6 @@ from typing import Any
 
 import numpy as np
 
-from model.block_kinds import AS_INLET
 from model.blocks.base import (
     ROUNDING,
     BlockOutput,
@@ -23,9 +22,10 @@ from model.blocks.base import (
     enthalpy,
     outlet_pressure,
 )
+from model.blocks.result import BlockResult
 from model.errors import CalculationError
-from model.solution import BlockResult
-from model.stream_state import StreamState
+from model.flowsheet.kinds import AS_INLET
+from model.properties.stream_state import StreamState
 
 
 @dataclass(kw_only=True)

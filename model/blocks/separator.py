@@ -7,10 +7,10 @@ from typing import Any
 
 import numpy as np
 
-from model.block_kinds import AS_INLET
 from model.blocks.base import BlockOutput, CompiledBlock, enthalpies
-from model.solution import BlockResult
-from model.stream_state import StreamState
+from model.blocks.result import BlockResult
+from model.flowsheet.kinds import AS_INLET
+from model.properties.stream_state import StreamState
 
 
 @dataclass(kw_only=True)

@@ -1,7 +1,7 @@
 """Whole-flowsheet checks: every missing or invalid item at once, as a list of Issues.
 
 A flowsheet read from a file (or edited before its components changed) may hold
-values that :func:`model.validation.check_spec_value` would refuse today, so every
+values that :func:`model.flowsheet.spec_checks.check_spec_value` would refuse today, so every
 spec is checked again here, together with what only the whole flowsheet shows:
 unconnected or doubly connected ports, splitter fractions against the outlets that
 really exist, and a mixer asked to keep "the inlet phase" of inlets in two phases.
@@ -13,9 +13,9 @@ from collections import defaultdict
 from collections.abc import Callable
 from typing import Any
 
-from model.block_kinds import AS_INLET
 from model.errors import InputError
-from model.flowsheet import Block, Flowsheet, Stream
+from model.flowsheet.document import Block, Flowsheet, Stream
+from model.flowsheet.kinds import AS_INLET
 from model.validation.issue import Issue
 
 SpecChecker = Callable[[Flowsheet, Block, Any, Any], Any]

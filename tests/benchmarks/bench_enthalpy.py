@@ -15,8 +15,8 @@ import time
 
 import numpy as np
 
-from model.components import lookup_component
-from model.thermo import PropertyBasis
+from model.properties.components import lookup_component
+from model.properties.enthalpy import PropertyBasis
 
 COMPONENTS = (
     "hydrogen",
@@ -86,7 +86,7 @@ def main(quick: bool = False) -> dict:
 
     reference = vectorised()
     # atol: a few streams have molar enthalpies near zero, where both paths carry ~1e-10
-    # J/mol of rounding (as in tests/model/test_thermo.py's single-vs-vectorised check)
+    # J/mol of rounding (as in tests/model/properties/test_enthalpy.py's single-vs-vectorised check)
     np.testing.assert_allclose(per_stream_loop(), reference, rtol=1e-12, atol=1e-6)
     np.testing.assert_allclose(per_stream_scalar_path(), reference, rtol=1e-12, atol=1e-6)
     t_vector = _best_time(vectorised, repeats)

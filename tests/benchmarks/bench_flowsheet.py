@@ -24,11 +24,11 @@ import time
 import numpy as np
 
 from convergence import SolverSettings
-from model.compile import compile_flowsheet
-from model.passes import FlowsheetPass
-from model.solve import solve_flowsheet
-from model.thermo import PropertyBasis
-from model.topology import analyse_topology
+from model.properties.enthalpy import PropertyBasis
+from model.solve.compile import compile_flowsheet
+from model.solve.driver import solve_flowsheet
+from model.solve.passes import FlowsheetPass
+from model.solve.topology import analyse_topology
 from tests.benchmarks.flowsheet_generator import generate_flowsheet
 
 

@@ -140,7 +140,7 @@ def latency_during_solve(window, app, seconds: float) -> dict[str, float]:
 
 def big_flowsheet(blocks: int = 200):
     """Rows of Feed -> Heater ... -> Product chains, 10 blocks a row, 240 px apart."""
-    from model.flowsheet import Flowsheet
+    from model.flowsheet.document import Flowsheet
 
     sheet = Flowsheet()
     per_row = 10

@@ -1,7 +1,7 @@
 """Flowsheet passes to close each recycle of the suite, Loopwright's methods against others.
 
-Every method iterates on the same tear function: the one :func:`model.solve.solve_flowsheet`
-builds (:func:`model.tear_problem.build_tear_problem`: same start, same pass, same scaled
+Every method iterates on the same tear function: the one :func:`model.solve.driver.solve_flowsheet`
+builds (:func:`model.solve.tear_problem.build_tear_problem`: same start, same pass, same scaled
 residual). A "pass" is one call of that function; the one start pass and the final pass
 that every solve adds are not counted. Methods:
 
@@ -48,7 +48,7 @@ from scipy.optimize import root
 
 from convergence import FixedPointProblem, SolverSettings, solve_fixed_point
 from model.errors import LoopwrightError
-from model.tear_problem import build_tear_problem
+from model.solve.tear_problem import build_tear_problem
 from tests.benchmarks.recycle_cases import CASES, build_case
 
 TOLERANCE = 1e-8

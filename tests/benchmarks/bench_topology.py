@@ -1,4 +1,4 @@
-"""Benchmark of model.topology.analyse_topology on generated flowsheets.
+"""Benchmark of model.solve.topology.analyse_topology on generated flowsheets.
 
 Flowsheets of 10, 100 and 1,000 blocks: a chain feed -> units -> product cut into
 segments of ten blocks, each segment with one recycle loop; every third segment adds a
@@ -15,7 +15,7 @@ import argparse
 import time
 from itertools import pairwise
 
-from model.topology import analyse_topology
+from model.solve.topology import analyse_topology
 
 SEGMENT = 10
 TEAR_VARIABLES = 20 + 2  # 20 components + temperature + pressure

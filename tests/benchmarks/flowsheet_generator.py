@@ -16,9 +16,9 @@ Components come from the ``chemicals`` database, in the fixed order of
 
 from __future__ import annotations
 
-from model.components import lookup_component
-from model.flowsheet import Flowsheet
-from model.spec_values import ComponentAmounts, Reaction, TypedQuantity
+from model.flowsheet.document import Flowsheet
+from model.flowsheet.spec_values import ComponentAmounts, Reaction, TypedQuantity
+from model.properties.components import lookup_component
 
 #: Component look-ups, first the reaction's two; 58 in all.
 COMPONENT_QUERIES = (

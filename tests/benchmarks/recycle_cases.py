@@ -22,9 +22,9 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from model.components import lookup_component
-from model.flowsheet import Flowsheet
-from model.spec_values import ComponentAmounts, Reaction, StreamEstimate, TypedQuantity
+from model.flowsheet.document import Flowsheet
+from model.flowsheet.spec_values import ComponentAmounts, Reaction, StreamEstimate, TypedQuantity
+from model.properties.components import lookup_component
 
 ISOMERISATION = {"n-butane": -1.0, "isobutane": 1.0}
 

@@ -10,9 +10,9 @@ from PySide6.QtGui import QUndoStack  # noqa: E402
 from PySide6.QtWidgets import QAbstractItemView, QLineEdit  # noqa: E402
 
 from gui.details import DetailsPane  # noqa: E402
-from model.components import lookup_component  # noqa: E402
-from model.flowsheet import Flowsheet  # noqa: E402
-from model.spec_values import ComponentAmounts, Reaction, TypedQuantity  # noqa: E402
+from model.flowsheet.document import Flowsheet  # noqa: E402
+from model.flowsheet.spec_values import ComponentAmounts, Reaction, TypedQuantity  # noqa: E402
+from model.properties.components import lookup_component  # noqa: E402
 from units_of_measure import to_internal  # noqa: E402
 
 pytestmark = pytest.mark.gui
@@ -264,7 +264,7 @@ def test_component_used_by_a_spec_is_not_removed(qtbot, pane, sheet):
 def test_details_of_a_solved_example(qtbot, screenshot_dir):
     from pathlib import Path
 
-    from model.case_file import load_case
+    from model.case.file import load_case
 
     root = Path(__file__).resolve().parents[2]
     case = load_case(root / "examples" / "ammonia_synthesis_loop.loop.json")

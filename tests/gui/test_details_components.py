@@ -12,8 +12,8 @@ from PySide6.QtGui import QUndoStack  # noqa: E402
 from scipy.constants import R  # noqa: E402
 
 from gui.details import DetailsPane  # noqa: E402
-from model.components import USER_SOURCE  # noqa: E402
-from model.flowsheet import Flowsheet  # noqa: E402
+from model.flowsheet.document import Flowsheet  # noqa: E402
+from model.properties.components import USER_SOURCE  # noqa: E402
 
 pytestmark = pytest.mark.gui
 

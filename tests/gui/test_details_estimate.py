@@ -11,8 +11,8 @@ import pytest  # noqa: E402
 from PySide6.QtGui import QUndoStack  # noqa: E402
 
 from gui.details import DetailsPane  # noqa: E402
-from model.case_file import load_case  # noqa: E402
-from model.spec_values import StreamEstimate  # noqa: E402
+from model.case.file import load_case  # noqa: E402
+from model.flowsheet.spec_values import StreamEstimate  # noqa: E402
 from units_of_measure import from_internal  # noqa: E402
 
 pytestmark = pytest.mark.gui

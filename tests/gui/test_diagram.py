@@ -14,7 +14,7 @@ from gui.diagram.editor import DiagramEditor
 from gui.diagram.scene import DiagramScene
 from gui.diagram.stream_item import StreamItem
 from gui.diagram.view import DiagramView
-from model.flowsheet import Flowsheet
+from model.flowsheet.document import Flowsheet
 
 
 @pytest.fixture
@@ -266,7 +266,7 @@ def test_editing_is_refused_while_disabled(diagram, drop):
 
 
 def test_solution_marks_tears_badges_and_hover_text(diagram, example_path):
-    from model.case_file import load_case
+    from model.case.file import load_case
     from units_of_measure import format_quantity
 
     case = load_case(example_path("shift_feed_effluent_exchanger"))

@@ -12,7 +12,7 @@ from pathlib import Path
 import pytest
 from PySide6.QtWidgets import QFileDialog, QMessageBox
 
-from model.case_file import case_to_dict
+from model.case.file import case_to_dict
 
 pytestmark = pytest.mark.gui
 ROOT = Path(__file__).resolve().parents[2]

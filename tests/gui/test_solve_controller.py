@@ -13,8 +13,8 @@ from PySide6.QtCore import Qt  # noqa: E402
 
 from gui.recycle_monitor import RecycleMonitor  # noqa: E402
 from gui.solve_controller import SolveController  # noqa: E402
-from model.case_file import load_case  # noqa: E402
-from model.solve import solve_flowsheet  # noqa: E402
+from model.case.file import load_case  # noqa: E402
+from model.solve.driver import solve_flowsheet  # noqa: E402
 
 pytestmark = pytest.mark.gui
 EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "ammonia_synthesis_loop.loop.json"

@@ -23,9 +23,9 @@ from gui.stream_table import (  # noqa: E402
     StreamTable,
     TableRow,
 )
-from model.case_file import load_case  # noqa: E402
-from model.cautions import CAUTIONS  # noqa: E402
-from model.validation import Issue  # noqa: E402
+from model.case.file import load_case  # noqa: E402
+from model.report.cautions import CAUTIONS  # noqa: E402
+from model.validation.issue import Issue  # noqa: E402
 from units_of_measure import from_internal  # noqa: E402
 
 pytestmark = pytest.mark.gui

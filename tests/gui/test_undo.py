@@ -11,12 +11,12 @@ from gui.commands_specs import AddComponentCommand, SetSpecCommand
 from gui.diagram.editor import DiagramEditor
 from gui.diagram.scene import DiagramScene
 from gui.diagram.view import DiagramView
-from model.case import Case
-from model.case_file import case_to_dict
-from model.components import lookup_component
+from model.case.document import Case
+from model.case.file import case_to_dict
 from model.errors import InputError
-from model.flowsheet import Flowsheet
-from model.spec_values import ComponentAmounts, TypedQuantity
+from model.flowsheet.document import Flowsheet
+from model.flowsheet.spec_values import ComponentAmounts, TypedQuantity
+from model.properties.components import lookup_component
 
 
 def structure(flowsheet: Flowsheet) -> dict:

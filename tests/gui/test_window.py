@@ -10,8 +10,8 @@ from PySide6.QtWidgets import QAbstractItemView, QLineEdit
 
 from convergence import METHODS
 from gui.stream_table import INTERNAL_ROLE, VALUE_ROLE
-from model.case_file import case_from_dict, case_to_dict
-from model.cautions import CAUTION_LINE, CAUTIONS
+from model.case.file import case_from_dict, case_to_dict
+from model.report.cautions import CAUTION_LINE, CAUTIONS
 from units_of_measure import UNIT_SYSTEMS, from_internal
 
 pytestmark = pytest.mark.gui
@@ -229,7 +229,7 @@ def test_progress_in_the_status_bar_and_esc_stops_a_long_solve(qtbot, window, ex
     window.files.open_path(str(example_path("ammonia_synthesis_loop")))
     # A solve that cannot finish within the wait on any machine: a purge of 1e-7 makes the
     # argon loop's slope 1 - 1e-7, so direct substitution needs ~1e8 iterations (the
-    # closed-form inert-and-purge answer; see tests/model/test_recycle_closed_form.py).
+    # closed-form inert-and-purge answer; see tests/model/solve/test_recycle_closed_form.py).
     window.case.flowsheet.set_spec("Purge splitter", "fractions", {"out2": 1e-7})
     window.set_method("direct")
     window.case.settings.update(tolerance=1e-15, max_iterations=100_000_000)

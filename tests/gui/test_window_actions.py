@@ -7,7 +7,7 @@ import pytest
 from PySide6.QtCore import SIGNAL
 from PySide6.QtWidgets import QMenu, QWidgetAction
 
-from model.cautions import CAUTIONS
+from model.report.cautions import CAUTIONS
 
 pytestmark = pytest.mark.gui
 

@@ -11,7 +11,7 @@ from PySide6.QtGui import QFontMetricsF
 from gui.diagram import look
 from gui.diagram.block_item import _fonts, name_lines
 from gui.diagram.view import FIT_MAX_ZOOM
-from model.spec_values import TypedQuantity
+from model.flowsheet.spec_values import TypedQuantity
 
 pytestmark = pytest.mark.gui
 EXAMPLES = (

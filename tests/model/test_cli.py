@@ -10,9 +10,9 @@ from pathlib import Path
 
 import pytest
 
-from model.case_file import load_case
-from model.cautions import CAUTIONS
+from model.case.file import load_case
 from model.cli import main
+from model.report.cautions import CAUTIONS
 from units_of_measure import from_internal
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "examples"

@@ -1,7 +1,7 @@
 """``loopwright solve --second-opinion``: the answer checked by solving every stream at once.
 
 Outside route: scipy.optimize.root on the simultaneous stream equations
-(:mod:`model.second_opinion`); the CLI prints its largest relative difference from the
+(:mod:`model.solve.second_opinion_solve`); the CLI prints its largest relative difference from the
 sequential-modular answer and adds it to ``--json``.
 """
 

@@ -12,7 +12,7 @@ from pathlib import Path
 import pytest
 
 from convergence import SolverSettings
-from model.case_file import case_to_json, load_case
+from model.case.file import case_to_json, load_case
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
 EXAMPLE_FILES = sorted(EXAMPLES.glob("*.loop.json"))
@@ -76,7 +76,7 @@ def test_example_as_saved_converges_and_its_balances_close(path: Path) -> None:
 
 @pytest.mark.parametrize("path", EXAMPLE_FILES, ids=lambda p: p.stem)
 def test_solving_a_reopened_example_gives_identical_numbers(path: Path, tmp_path: Path) -> None:
-    from model.case_file import save_case
+    from model.case.file import save_case
 
     case, solution = _solved(path)
     copy_path = tmp_path / path.name

@@ -1,0 +1,110 @@
+"""The state of one material stream: component flows, temperature, pressure, phase.
+
+Values are plain floats in internal units (mol/s, K, Pa). Pressure is carried but does
+not affect enthalpy in the ideal basis of version 1; the phase is set by the block that
+makes the stream (no phase equilibrium is computed).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from model.errors import InputError
+from model.properties.enthalpy import PropertyBasis
+
+PHASES = ("vapor", "liquid")
+
+
+@dataclass(eq=False)
+class StreamState:
+    """Component molar flows (mol/s), temperature (K), pressure (Pa) and phase.
+
+    Examples
+    --------
+    >>> from model.properties.components import lookup_component
+    >>> basis = PropertyBasis([lookup_component("water"), lookup_component("methanol")])
+    >>> stream = StreamState(np.array([1.0, 3.0]), T=300.0, P=101325.0, phase="liquid")
+    >>> stream.mole_fractions().tolist()
+    [0.25, 0.75]
+    """
+
+    flows: np.ndarray
+    T: float
+    P: float
+    phase: str
+
+    def __post_init__(self) -> None:
+        self.flows = np.array(self.flows, dtype=float)
+
+    @property
+    def liquid(self) -> bool:
+        """True for a liquid stream."""
+        return self.phase == "liquid"
+
+    def total_molar_flow(self) -> float:
+        """Sum of the component flows, mol/s."""
+        return float(self.flows.sum())
+
+    def mole_fractions(self) -> np.ndarray:
+        """Mole fraction of each component; all zero for a stream with no flow."""
+        total = self.flows.sum()
+        return self.flows / total if total > 0.0 else np.zeros_like(self.flows)
+
+    def mass_flow(self, basis: PropertyBasis) -> float:
+        """Total mass flow, kg/s."""
+        return float(self.flows @ basis.molar_mass)
+
+    def mass_fractions(self, basis: PropertyBasis) -> np.ndarray:
+        """Mass fraction of each component; all zero for a stream with no flow."""
+        masses = self.flows * basis.molar_mass
+        total = masses.sum()
+        return masses / total if total > 0.0 else np.zeros_like(masses)
+
+    def enthalpy_flow(self, basis: PropertyBasis) -> float:
+        """Enthalpy flow on the formation basis, W."""
+        return basis.stream_enthalpy_flow(self.flows, self.T, self.liquid)
+
+    def molar_enthalpy(self, basis: PropertyBasis) -> float:
+        """Enthalpy per mole of stream, J/mol; NaN for a stream with no flow."""
+        total = self.total_molar_flow()
+        return self.enthalpy_flow(basis) / total if total > 0.0 else math.nan
+
+    def validate(self, field: str, basis: PropertyBasis | None = None) -> None:
+        """Check the state; raise InputError naming ``field.flows``, ``field.T``, ...
+
+        Parameters
+        ----------
+        field
+            Where the stream is specified, e.g. ``"Feed 1"``; used in error messages.
+        basis
+            If given, the number of flows must match its components.
+        """
+        flows = self.flows
+        if flows.ndim != 1 or (basis is not None and flows.shape[0] != len(basis.names)):
+            expected = f"{len(basis.names)} " if basis is not None else ""
+            raise InputError(f"{field}.flows", flows, f"a list of {expected}component flows")
+        if not np.all(np.isfinite(flows)):
+            raise InputError(f"{field}.flows", flows.tolist(), "finite flows (no NaN or inf)")
+        if np.any(flows < 0.0):
+            raise InputError(f"{field}.flows", flows.tolist(), "flows of 0 mol/s or more")
+        if not _is_finite_number(self.T) or not self.T > 0.0:
+            raise InputError(f"{field}.T", self.T, "a temperature above 0 K")
+        if not _is_finite_number(self.P) or not self.P > 0.0:
+            raise InputError(f"{field}.P", self.P, "an absolute pressure above 0 Pa")
+        if self.phase not in PHASES:
+            raise InputError(f"{field}.phase", self.phase, f"one of {list(PHASES)}")
+
+    def copy(self) -> StreamState:
+        """An independent copy (the flow array is copied too)."""
+        return StreamState(self.flows.copy(), self.T, self.P, self.phase)
+
+
+def _is_finite_number(value: object) -> bool:
+    return (
+        isinstance(value, (int, float, np.floating, np.integer))
+        and not isinstance(value, bool)
+        and math.isfinite(value)
+    )

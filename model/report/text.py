@@ -1,0 +1,165 @@
+"""The text report of a solution: block duties, closures, convergence, stream table.
+
+Shared by the headless commands (``model.cli``) and the window's export: every number
+is converted once from internal units to the chosen unit system and formatted with
+``units_of_measure.format_value``; the stream table comes from ``model.report.table``.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from model.report.cautions import CAUTIONS
+from model.report.table import display_unit, stream_table, stream_table_text
+from units_of_measure import UnitError, format_value, from_internal, get_kind, get_unit_system
+
+
+def block_duty_lines(
+    solution: Any, unit_system: str, block_order: list[str] | None = None
+) -> list[str]:
+    """``"Reactor: -1234.5 kW"`` for every block with a duty, then its other results."""
+    system = get_unit_system(unit_system)
+    lines = []
+    for name in block_order or list(solution.blocks):
+        result = solution.blocks.get(name)
+        if result is None:
+            continue
+        parts = []
+        if result.duty_W is not None:
+            parts.append("duty " + _quantity(result.duty_W, "power", system))
+        for label, (value, kind) in result.values.items():
+            parts.append(
+                f"{label} " + (_quantity(value, kind, system) if kind else format_value(value))
+            )
+        if parts:
+            lines.append(f"{name}: " + ", ".join(parts))
+    return lines
+
+
+def _known_kind(kind: str) -> str | None:
+    """The ``units_of_measure`` kind for a result's kind name (``"UA"`` is its alias ``"ua"``)."""
+    for candidate in (kind, kind.lower()):
+        try:
+            return get_kind(candidate).name
+        except UnitError:
+            continue
+    return None
+
+
+def _quantity(value: float, kind: str, system: Any) -> str:
+    if value is None or not math.isfinite(value):
+        return "n/a" if value is None else format_value(value)
+    known = _known_kind(kind)
+    if known is None:  # a kind the unit layer does not know: show the internal value as is
+        return f"{format_value(value)} ({kind}, internal units)"
+    unit = display_unit(system, known)
+    number = format_value(from_internal(value, known, unit or "1"))
+    return f"{number} {unit}" if unit else number
+
+
+def convergence_lines(solution: Any) -> list[str]:
+    """Per tear: iterations, final residual and the diagnosis advice; or why there is none."""
+    result = solution.convergence
+    lines = [
+        f"Status: {solution.message}".rstrip(),
+        f"Flowsheet passes: {solution.passes}",
+    ]
+    if result is None:
+        lines.append("No recycle: the flowsheet was solved in one pass.")
+        return lines
+    lines.append(
+        f"Method: {result.method}; iterations: {result.iterations}; "
+        f"evaluations: {result.evaluations}"
+    )
+    for tear in solution.tear_streams:
+        residuals = result.history.residuals(tear)
+        final = format_value(residuals[-1]) if residuals.size else "n/a"
+        lines.append(f"Tear {tear}: {residuals.size} iterations, final residual {final}")
+        diagnosis = result.diagnosis.get(tear)
+        if diagnosis is not None and diagnosis.advice:
+            lines.append(f"  {diagnosis.advice}")
+    return lines
+
+
+def closure_lines(solution: Any) -> list[str]:
+    """The balance closure summary, or why there is none."""
+    if solution.balance is None:
+        return ["No balance: the flowsheet was not solved."]
+    return list(solution.balance.lines())
+
+
+def solution_report(
+    solution: Any,
+    unit_system: str,
+    stream_order: list[str] | None = None,
+    block_order: list[str] | None = None,
+) -> str:
+    """The full text report: cautions, convergence, stream table, duties, closures, issues."""
+    sections = [
+        ["Cautions:", *(f"  {text}" for text in CAUTIONS)],
+        ["Convergence:", *(f"  {line}" for line in convergence_lines(solution))],
+    ]
+    if solution.streams:
+        table = stream_table(solution, unit_system, stream_order)
+        sections.append([f"Stream table ({unit_system}):", stream_table_text(table)])
+    duties = block_duty_lines(solution, unit_system, block_order)
+    if duties:
+        sections.append(["Blocks:", *(f"  {line}" for line in duties)])
+    sections.append(["Balance closures:", *(f"  {line}" for line in closure_lines(solution))])
+    if solution.issues:
+        sections.append(
+            ["Log:", *(f"  {issue.severity}: {issue.message}" for issue in solution.issues)]
+        )
+    return "\n\n".join("\n".join(section) for section in sections) + "\n"
+
+
+def solution_summary(solution: Any) -> dict[str, Any]:
+    """The solution as one JSON-able object in internal units (``loopwright solve --json``).
+
+    Keys: ``status``, ``converged``, ``message``, ``iterations``, ``passes``, ``tears``
+    (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
+    ``T_K``, ``P_Pa``, ``phase``, ``enthalpy_flow_W``), ``blocks`` (name -> ``duty_W``
+    where the block has one), ``closure`` (relative closures ``mass``, ``elements``,
+    ``energy``) and ``cautions``.
+    """
+    result = solution.convergence
+    components = list(solution.component_names)
+    streams = {
+        name: {
+            "molar_flows_mol_s": {c: float(state.flows[i]) for i, c in enumerate(components)},
+            "T_K": float(state.T),
+            "P_Pa": float(state.P),
+            "phase": state.phase,
+            "enthalpy_flow_W": float(state.enthalpy_flow(solution.basis)),
+        }
+        for name, state in solution.streams.items()
+    }
+    balance = solution.balance
+    return {
+        "status": solution.status,
+        "converged": bool(solution.converged),
+        "message": solution.message,
+        "iterations": 0 if result is None else int(result.iterations),
+        "passes": int(solution.passes),
+        "tears": {
+            tear: [float(r) for r in result.history.residuals(tear)]
+            for tear in solution.tear_streams
+        }
+        if result is not None
+        else {},
+        "streams": streams,
+        "blocks": {
+            name: {"duty_W": float(block.duty_W)}
+            for name, block in solution.blocks.items()
+            if block.duty_W is not None
+        },
+        "closure": None
+        if balance is None
+        else {
+            "mass": float(balance.mass_closure),
+            "elements": float(balance.element_closure),
+            "energy": float(balance.energy_closure),
+        },
+        "cautions": list(CAUTIONS),
+    }

@@ -1,0 +1,109 @@
+"""Sequential-modular solve: passes over the blocks in calculation order, tears converged.
+
+Steps of :func:`solve_flowsheet`:
+
+1. Validate; with any error the result is "needs input" with the issues (no exception).
+2. Compile the specs once to internal floats (:mod:`model.solve.compile`).
+3. Find the tear streams and the calculation order (:func:`model.solve.topology.analyse_topology`;
+   preferred tears honoured, weights = tear variables per stream).
+4. Without tears: one pass, done. With tears, the tear vector is, for each tear stream
+   in turn, its component flows (mol/s), T (K) and P (Pa); g(x) is one pass that starts
+   from the tear values x and returns the tear streams as recomputed by their source
+   blocks. Start: the user's estimate of a tear where given; otherwise one pass with
+   the tears at zero flow at the feeds' mean T and P, whose recomputed tears are x0.
+5. x = g(x) is solved by :func:`convergence.solve_fixed_point` with the live settings.
+   Absolute floors of the scaled residual: flows ``1e-9 x total feed flow + 1e-12``
+   mol/s (a trace component's flow need not converge relative to itself), T 1 K, P 1 Pa.
+6. A final, strict pass at the converged x fills every stream; a tear stream is
+   reported as its source block computed it. Balances are reported.
+
+While the tears iterate, a pass is lenient: a tear flow that a Wegstein step took
+below zero is clipped to zero, and a reaction short of a reactant is limited with a
+warning; both are reported as warnings. The final pass is strict: a reaction that
+still needs more reactant than is present ends the solve as "failed".
+
+The solve reads the flowsheet only: it never changes it and emits none of its signals,
+so the window may run it in a worker thread.
+
+Examples
+--------
+>>> from model.properties.components import lookup_component
+>>> from model.flowsheet.document import Flowsheet
+>>> from model.flowsheet.spec_values import ComponentAmounts, TypedQuantity
+>>> sheet = Flowsheet()
+>>> sheet.add_component(lookup_component("water"))
+>>> _ = sheet.add_block("Feed", "F", specs={"flows": ComponentAmounts({"water": 1.0},
+...     "mol/s"), "T": TypedQuantity(25.0, "degC"), "P": TypedQuantity(1.0, "bar")})
+>>> _ = sheet.add_block("Heater", "H", specs={"T": TypedQuantity(80.0, "degC"),
+...     "phase": "vapor"})
+>>> _ = sheet.add_block("Product", "P")
+>>> _ = sheet.connect("F", "out", "H", "in"); _ = sheet.connect("H", "out", "P", "in")
+>>> solution = solve_flowsheet(sheet)
+>>> solution.status, solution.passes, round(solution.blocks["H"].duty_W, 1)
+('solved', 1, 1854.4)
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+from convergence import METHODS, IterationRecord, SolverSettings, solve_fixed_point
+from model.errors import CalculationError, InputError
+from model.flowsheet.document import Flowsheet
+from model.solve.solution import FlowsheetSolution
+from model.solve.tear_problem import prepare_tear_problem
+from model.validation.issue import Issue
+from model.validation.validate import validate_flowsheet
+
+__all__ = ["solve_flowsheet"]
+
+
+def _needs_input(flowsheet: Flowsheet, issues: list[Issue]) -> FlowsheetSolution:
+    errors = [i for i in issues if i.is_error]
+    message = f"needs input: {len(errors)} problem(s); first: {errors[0].message}"
+    return FlowsheetSolution(
+        "needs input", False, message, None, flowsheet.component_names(), issues=issues
+    )
+
+
+def solve_flowsheet(
+    flowsheet: Flowsheet,
+    method: str = "wegstein",
+    settings: SolverSettings | None = None,
+    callback: Callable[[IterationRecord], bool | None] | None = None,
+) -> FlowsheetSolution:
+    """Solve the flowsheet's heat and material balance (see the module docstring).
+
+    Parameters
+    ----------
+    flowsheet
+        Read only.
+    method
+        A key of :data:`convergence.METHODS` ("direct", "wegstein", "broyden").
+    settings
+        Live solver settings (tolerance, q bounds, iteration limit ...); default ones
+        if None.
+    callback
+        Called after every iteration with its record; returning True stops the solve.
+
+    Returns
+    -------
+    FlowsheetSolution
+        Status "solved", "not converged", "stopped", "needs input" or "failed"; never
+        raises for bad input or a failed calculation.
+    """
+    if method not in METHODS:
+        raise InputError("method", method, "one of: " + ", ".join(METHODS))
+    settings = settings if settings is not None else SolverSettings()
+    issues = validate_flowsheet(flowsheet)
+    if any(issue.is_error for issue in issues):
+        return _needs_input(flowsheet, issues)
+    tear_problem = prepare_tear_problem(flowsheet, issues)
+    if not tear_problem.tear_streams:
+        return tear_problem.final_pass([], True, None, settings.snapshot().tolerance)
+    try:
+        tear_problem.make_start(flowsheet)
+    except CalculationError as error:
+        return tear_problem.failed(error)
+    result = solve_fixed_point(tear_problem.problem, method, settings, callback)
+    return tear_problem.finish(result, settings)
