@@ -214,7 +214,11 @@ class SolverSettings:
         return self._current
 
     def request_stop(self) -> None:
-        """Ask the run in progress (or the next one) to stop after the current evaluation."""
+        """Ask the run in progress to stop after the current evaluation.
+
+        A run clears the request when it starts, so a stop pressed after a run has ended
+        never stops the next one.
+        """
         self._stop.set()
 
     @property

@@ -231,6 +231,7 @@ class _Run:
 
     def execute(self) -> FixedPointResult:
         """Iterate until a stopping rule ends the run."""
+        self.settings.clear_stop()  # a request left over from before this run began
         x, x_previous, gx_previous, settings = self.layout.x0.copy(), None, None, None
         iteration = 0
         while True:

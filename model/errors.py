@@ -83,13 +83,14 @@ class CalculationError(LoopwrightError):
     """A block that cannot compute its outlets from its inlets and specs.
 
     For example a conversion that needs more of a reactant than is present, or a duty
-    put into a zero flow. ``block`` names the block; the message says what and why.
+    put into a zero flow. ``block`` names the block (None when the failure belongs to no
+    one block); the message says what and why.
     """
 
-    def __init__(self, block: str, detail: str) -> None:
+    def __init__(self, block: str | None, detail: str) -> None:
         self.block = block
         self.detail = detail
-        super().__init__(f"{block}: {detail}")
+        super().__init__(detail if block is None else f"{block}: {detail}")
 
 
 __all__ += ["CalculationError"]

@@ -10,9 +10,11 @@ previous file as ``NAME.loop.json.bak``.
 from __future__ import annotations
 
 import contextlib
+import glob
 import json
 import os
 import tempfile
+import time
 from pathlib import Path
 from typing import Any
 
@@ -25,6 +27,7 @@ from model.case.schema import Problems, join, json_object_hook
 from model.case.specs import spec_to_json
 from model.errors import CaseFileError, CaseProblem
 from model.flowsheet.document import Block, Flowsheet, Stream
+from model.limits import NOTES_LENGTH_LIMIT, TITLE_LENGTH_LIMIT
 
 CASE_FORMAT = "loopwright-case"
 CASE_VERSION = CURRENT_VERSION
@@ -109,10 +112,27 @@ def save_case(case: Case, path: str | os.PathLike[str]) -> None:
     target = Path(path)
     text = case_to_json(case)
     try:
+        _remove_stale_temporaries(target)
         _write_atomically(target, text.encode("utf-8"))
     except OSError as error:
         problem = CaseProblem("(file)", str(target), f"a file that can be written ({error})")
         raise CaseFileError(str(target), [problem]) from None
+
+
+#: A temporary file of an earlier save older than this was left by an interrupted save.
+STALE_TEMPORARY_SECONDS = 60.0
+
+
+def _remove_stale_temporaries(target: Path) -> None:
+    """Remove ``.NAME.*.tmp`` (and the backup's) left beside ``target`` by a save that was
+    interrupted; a temporary younger than a minute may belong to a save still running."""
+    folder = target.resolve().parent
+    now = time.time()
+    for prefix in (f".{target.name}.", f".{target.name}{BACKUP_SUFFIX}."):
+        for leftover in folder.glob(glob.escape(prefix) + "*.tmp"):
+            with contextlib.suppress(OSError):
+                if now - leftover.stat().st_mtime > STALE_TEMPORARY_SECONDS:
+                    leftover.unlink()
 
 
 def _file_mode(target: Path) -> int:
@@ -250,8 +270,8 @@ def _case_from_dict(data: Any, source: str) -> Case:
         settings=_read_settings(problems, data.get("solver_settings", {})),
         method=_read_method(problems, data.get("method", DEFAULT_METHOD)),
         unit_system=_read_unit_system(problems, data.get("unit_system", DEFAULT_UNIT_SYSTEM)),
-        title=problems.text("title", data.get("title", "")) or "",
-        notes=problems.text("notes", data.get("notes", "")) or "",
+        title=problems.text("title", data.get("title", ""), limit=TITLE_LENGTH_LIMIT) or "",
+        notes=problems.text("notes", data.get("notes", ""), limit=NOTES_LENGTH_LIMIT) or "",
     )
     read_flowsheet(problems, data, case.flowsheet)
     if not problems and data.get("results") is not None:

@@ -15,6 +15,7 @@ from collections.abc import Iterable
 from typing import Any
 
 from model.errors import CaseProblem
+from model.limits import NAME_LENGTH_LIMIT, shown
 
 _IDENTIFIER = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
 MISSING = object()  # marks a key absent from a JSON object
@@ -103,12 +104,18 @@ class Problems:
             return None
         return value
 
-    def text(self, path: str, value: Any, name: bool = False) -> str | None:
-        """A string; with ``name`` also non-empty without leading or trailing spaces."""
+    def text(
+        self, path: str, value: Any, name: bool = False, limit: int = NAME_LENGTH_LIMIT
+    ) -> str | None:
+        """A string of at most ``limit`` characters; with ``name`` also non-empty without
+        leading or trailing spaces."""
         if value is MISSING:  # a missing required key is reported once, by object()
             return None
         if not isinstance(value, str):
             self.add(path, value, "text (a JSON string) is needed here")
+            return None
+        if len(value) > limit:
+            self.add(path, shown(value), f"at most {limit} characters (this has {len(value)})")
             return None
         if name and (not value.strip() or value != value.strip()):
             self.add(

@@ -18,6 +18,7 @@ from model.flowsheet.events import Signal
 from model.flowsheet.kinds import BlockKind, block_kind
 from model.flowsheet.spec_checks import check_spec_value
 from model.flowsheet.spec_values import StreamEstimate
+from model.limits import NAME_LENGTH_LIMIT, check_length
 
 #: Highest numbered port of a mixer's inlets or a splitter's outlets.
 MAX_NUMBERED_PORT = 999
@@ -388,6 +389,8 @@ def _check_estimate(field: str, estimate: StreamEstimate, components: list[str])
 
 
 def _check_name(what: str, name: Any, taken: dict[str, Any]) -> None:
+    if isinstance(name, str):
+        check_length(what, name, NAME_LENGTH_LIMIT)
     if not isinstance(name, str) or not name.strip() or name != name.strip():
         raise InputError(
             what, name, "a name must be non-empty text without leading or trailing spaces"

@@ -16,6 +16,7 @@ from typing import Any
 
 from model.errors import InputError
 from model.flowsheet.spec_values import ComponentAmounts, Reaction, TypedQuantity, check_fraction
+from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
 from units_of_measure.conversion import to_internal
 from units_of_measure.errors import UnitError
 from units_of_measure.kinds import get_kind
@@ -46,6 +47,41 @@ _LOWER_LIMITS = {
 }
 
 
+# Upper limits in internal units: (limit, words). Beyond them the arithmetic of a pass
+# overflows or the property correlations are extrapolated past any meaning.
+_UPPER_LIMITS = {
+    "temperature": (T_SEARCH_MAX, f"{T_SEARCH_MAX:g} K, the top of the temperature solve"),
+    "pressure": (1e9, "1e9 Pa (10,000 bar), beyond any process plant"),
+    "pressure_difference": (1e9, "1e9 Pa (10,000 bar)"),
+    "temperature_difference": (T_SEARCH_MAX, f"{T_SEARCH_MAX:g} K"),
+    "molar_flow": (1e9, "1e9 mol/s"),
+    "mass_flow": (1e9, "1e9 kg/s"),
+    "power": (1e13, "1e13 W in magnitude"),
+}
+#: Temperatures below this are refused: the bottom of the temperature solve's bracket.
+LOWEST_TEMPERATURE_K = T_SEARCH_MIN
+
+
+def physical_range_problem(internal: float, kind: str) -> str | None:
+    """What is wrong with a value of ``kind`` in internal units, or None when it is usable.
+
+    Finite always; temperatures within the temperature solve's range
+    (10 K to 6000 K); other kinds within the limits of ``_UPPER_LIMITS``.
+    """
+    description = get_kind(kind).description
+    if not math.isfinite(internal):
+        return f"{description} must be a finite number after conversion to internal units"
+    if kind == "temperature" and internal < LOWEST_TEMPERATURE_K:
+        return f"{description} must be at least {LOWEST_TEMPERATURE_K:g} K"
+    upper = _UPPER_LIMITS.get(kind)
+    if upper is not None:
+        limit, words = upper
+        magnitude = abs(internal) if kind == "power" else internal
+        if magnitude > limit:
+            return f"{description} must be at most {words}"
+    return None
+
+
 def check_quantity(name: str, value: Any, kind: str) -> TypedQuantity:
     """A :class:`TypedQuantity` of ``kind`` (``"flow"``: molar or mass) within its range.
 
@@ -72,6 +108,9 @@ def check_quantity(name: str, value: Any, kind: str) -> TypedQuantity:
         raise InputError(
             name, str(value), f"{get_kind(used_kind).description} must be {limit_words}"
         )
+    problem = physical_range_problem(internal, used_kind)
+    if problem is not None:
+        raise InputError(name, str(value), problem)
     return value
 
 
@@ -140,7 +179,7 @@ def check_component_flows(name: str, value: Any, components: list[str]) -> Compo
     if not isinstance(value, ComponentAmounts):
         raise InputError(name, value, "component flows: one number per component and a unit")
     try:
-        flow_kind(value.unit)
+        kind = flow_kind(value.unit)
     except InputError as error:
         raise InputError(f"{name}.unit", value.unit, error.allowed) from None
     _check_components(name, value.values, components)
@@ -148,6 +187,10 @@ def check_component_flows(name: str, value: Any, components: list[str]) -> Compo
         number = _finite_number(f"{name}[{component}]", amount, "a flow of zero or more")
         if number < 0.0:
             raise InputError(f"{name}[{component}]", amount, "a flow of zero or more")
+        internal = to_internal(number, value.unit, kind, field=f"{name}[{component}]")
+        problem = physical_range_problem(internal, kind)
+        if problem is not None:
+            raise InputError(f"{name}[{component}]", f"{amount} {value.unit}", problem)
     return value
 
 

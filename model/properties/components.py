@@ -17,6 +17,7 @@ from typing import Any
 from chemicals.identifiers import check_CAS
 
 from model.errors import InputError
+from model.limits import NAME_LENGTH_LIMIT, check_length
 from model.properties.component_data import component_record, find_cas
 from model.properties.cp_correlations import CpCorrelation
 from model.properties.formula import molar_mass_of, parse_formula
@@ -176,6 +177,7 @@ def lookup_component(query: str) -> Component:
     """
     if not isinstance(query, str):
         raise InputError("component", query, "a component name, formula or CAS number")
+    check_length("component", query, NAME_LENGTH_LIMIT)
     return _component_for_cas(_cas_for_query(query.strip()))
 
 
@@ -227,6 +229,8 @@ def define_component(
     InputError
         Naming the first invalid field, its value and what is allowed.
     """
+    if isinstance(name, str):
+        check_length("name", name, NAME_LENGTH_LIMIT)
     sources = {key: USER_SOURCE for key in ("Tc", "Pc", "Tb", "Hf_ig", "Hvap_Tb")}
     sources["cp"] = cp.source if isinstance(cp, CpCorrelation) else USER_SOURCE
     if molar_mass is None:

@@ -13,6 +13,7 @@ import re
 from chemicals.elements import periodic_table
 
 from model.errors import InputError
+from model.limits import FORMULA_LENGTH_LIMIT, check_length
 
 _TOKEN = re.compile(r"([A-Z][a-z]?)|(\d+(?:\.\d+)?|\.\d+)|([(\[])|([)\]])|(\s+)|(.)")
 _CLOSING = {"(": ")", "[": "]"}
@@ -49,6 +50,7 @@ def parse_formula(formula: str) -> dict[str, float]:
     """
     if not isinstance(formula, str):
         raise InputError("formula", formula, _ALLOWED)
+    check_length("formula", formula, FORMULA_LENGTH_LIMIT)
     return dict(_parse_cached(formula))
 
 

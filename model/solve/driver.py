@@ -48,7 +48,8 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from convergence import METHODS, IterationRecord, SolverSettings, solve_fixed_point
-from model.errors import CalculationError, InputError
+from convergence.errors import ConvergenceInputError
+from model.errors import CalculationError, InputError, LoopwrightError
 from model.flowsheet.document import Flowsheet
 from model.solve.solution import FlowsheetSolution
 from model.solve.tear_problem import prepare_tear_problem
@@ -98,12 +99,27 @@ def solve_flowsheet(
     issues = validate_flowsheet(flowsheet)
     if any(issue.is_error for issue in issues):
         return _needs_input(flowsheet, issues)
-    tear_problem = prepare_tear_problem(flowsheet, issues)
+    try:
+        tear_problem = prepare_tear_problem(flowsheet, issues)
+    except LoopwrightError as error:  # e.g. a spec the compiler cannot use
+        return _failed_before_start(flowsheet, issues, error)
     if not tear_problem.tear_streams:
         return tear_problem.final_pass([], True, None, settings.snapshot().tolerance)
     try:
         tear_problem.make_start(flowsheet)
-    except CalculationError as error:
+        result = solve_fixed_point(tear_problem.problem, method, settings, callback)
+    except CalculationError as error:  # a block failed in a pass while the tears iterated
         return tear_problem.failed(error)
-    result = solve_fixed_point(tear_problem.problem, method, settings, callback)
+    except (LoopwrightError, ConvergenceInputError) as error:  # e.g. a non-finite start
+        return tear_problem.failed(CalculationError(None, str(error)))
     return tear_problem.finish(result, settings)
+
+
+def _failed_before_start(
+    flowsheet: Flowsheet, issues: list[Issue], error: LoopwrightError
+) -> FlowsheetSolution:
+    block = getattr(error, "block", None)
+    issues = [*issues, Issue("error", str(error), block=block)]
+    return FlowsheetSolution(
+        "failed", False, f"failed: {error}", None, flowsheet.component_names(), issues=issues
+    )

@@ -73,6 +73,10 @@ class FlowsheetPass:
                 raise
             except LoopwrightError as error:
                 raise CalculationError(block.name, str(error)) from error
+            except (ArithmeticError, ValueError) as error:  # e.g. a log of a value out of range
+                raise CalculationError(
+                    block.name, f"the calculation failed with these inlet states ({error})"
+                ) from error
             for port, index, tear in outlets:
                 if tear is None:
                     states[index] = output.outlets[port]

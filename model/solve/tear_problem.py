@@ -35,6 +35,7 @@ A feed of water mixed with half of what leaves the mixer (recycle ratio 0.5):
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -337,8 +338,30 @@ def _fill(
         [compiled.stream_names[i] for i in compiled.product_streams],
         tolerance,
     )
-    if not solution.balance.closes:
+    unusable = _unusable(solution)
+    if unusable is not None and solution.converged:
+        # converged means the balance is usable: finite, and every closure closes
+        solution.status, solution.converged = "failed", False
+        solution.message = f"failed: {unusable} (the iteration itself converged)"
+        solution.issues.append(Issue("error", unusable))
+    elif not solution.balance.closes:
         solution.issues.append(Issue("warning", "balance: " + solution.balance.lines()[-1]))
+
+
+def _unusable(solution: FlowsheetSolution) -> str | None:
+    """Why a converged solution cannot be reported as one: a non-finite value, or a
+    balance that does not close. None when it is usable."""
+    for name, state in solution.streams.items():
+        values = {"flows": state.flows, "temperature": state.T, "pressure": state.P}
+        for what, value in values.items():
+            if not np.all(np.isfinite(value)):
+                return f"{name}: the {what} is not a finite number"
+    for name, result in solution.blocks.items():
+        if result.duty_W is not None and not math.isfinite(result.duty_W):
+            return f"{name}: the duty is not a finite number"
+    if not solution.balance.closes:
+        return "the balances do not close: " + solution.balance.lines()[-1]
+    return None
 
 
 def _property_warnings(solution: FlowsheetSolution) -> list[Issue]:

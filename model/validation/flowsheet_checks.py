@@ -16,7 +16,9 @@ from typing import Any
 from model.errors import InputError
 from model.flowsheet.document import Block, Flowsheet, Stream
 from model.flowsheet.kinds import AS_INLET
+from model.flowsheet.value_checks import flow_kind
 from model.validation.issue import Issue
+from units_of_measure.conversion import to_internal
 
 SpecChecker = Callable[[Flowsheet, Block, Any, Any], Any]
 
@@ -222,10 +224,19 @@ def _set_flow_issues(block: Block, connected: list[str]) -> list[Issue]:
     return issues
 
 
+#: A feed's total flow (mol/s or kg/s) that is positive but smaller than this is refused:
+#: the balance arithmetic and the solve's absolute floors lose it entirely.
+SMALLEST_FEED_FLOW = 1e-12
+
+
 def feed_issues(block: Block) -> list[Issue]:
-    """A feed whose flows are all zero is allowed but almost always a slip."""
-    flows = block.specs.get("flows")
-    if block.specs.get("basis", "component flows") == "component flows" and flows is not None:
+    """A feed whose flows are all zero is allowed but almost always a slip; one whose
+    total is positive but below :data:`SMALLEST_FEED_FLOW` is refused."""
+    specs = block.specs
+    if specs.get("basis", "component flows") == "component flows":
+        flows = specs.get("flows")
+        if flows is None:
+            return []
         if not any(float(v) > 0 for v in getattr(flows, "values", {}).values()):
             return [
                 Issue(
@@ -236,6 +247,27 @@ def feed_issues(block: Block) -> list[Issue]:
                     "flows",
                 )
             ]
+        field, amount, unit = "flows", sum(float(v) for v in flows.values.values()), flows.unit
+    else:
+        total = specs.get("total_flow")
+        if total is None:
+            return []
+        field, amount, unit = "total_flow", float(total.value), total.unit
+    return _tiny_feed_issues(block, field, amount, unit)
+
+
+def _tiny_feed_issues(block: Block, field: str, amount: float, unit: str) -> list[Issue]:
+    try:
+        internal = to_internal(amount, unit, flow_kind(unit), field=f"{block.name}.{field}")
+    except InputError:
+        return []  # the spec check has reported the unit already
+    if 0.0 < internal < SMALLEST_FEED_FLOW:
+        message = (
+            f"{block.name}.{field}: a total of {amount:g} {unit} is not allowed; a feed's "
+            f"total flow must be 0 or at least {SMALLEST_FEED_FLOW:g} mol/s (or kg/s): "
+            "smaller flows are lost in the balance arithmetic"
+        )
+        return [Issue("error", message, block.name, None, field)]
     return []
 
 

@@ -67,11 +67,15 @@ def test_callback_returning_true_stops():
     assert "callback" in result.message
 
 
-def test_stop_requested_before_the_run_stops_after_the_first_evaluation():
+def test_a_stop_requested_before_the_run_does_not_end_it():
+    # Regression (issue 15): a late Stop, pressed after a run had ended, stayed set and
+    # ended the next run at iteration 1 without saying why.
     settings = SolverSettings()
     settings.request_stop()
     result = solve_fixed_point(_cosine_problem(), "wegstein", settings)
-    assert result.status == "stopped" and result.evaluations == 1
+    assert result.status == "converged" and not settings.stop_requested
+    # x = cos x: the fixed point, scipy.optimize.fixed_point (CHECKS.md)
+    assert result.x[0] == pytest.approx(0.7390851332151607, abs=1e-7)
 
 
 def test_settings_change_from_another_thread_applies_at_next_iteration():

@@ -272,3 +272,28 @@ def test_many_repaints_do_not_exhaust_the_references_to_none(window, example_pat
     for _ in range(150):
         window.grab()
     assert before - sys.getrefcount(None) < 1000
+
+
+def test_a_late_stop_does_not_end_the_next_solve(qtbot, window, example_path):
+    # Regression (issue 15): Esc pressed as a solve ended left the stop request set, and
+    # the next F5 stopped at iteration 1 without saying why.
+    window.files.open_path(str(example_path("ammonia_synthesis_loop")))
+    press_f5_and_wait(qtbot, window)
+    assert window.status.state() == "solved"
+    window.case.settings.request_stop()  # what Esc does if it lands as the run ends
+    QTest.keyClick(window, Qt.Key.Key_Escape)
+    press_f5_and_wait(qtbot, window)
+    assert window.status.state() == "solved"
+    assert window.case.solution.convergence.status == "converged"
+
+
+def test_a_run_whose_balances_do_not_close_is_shown_as_failed(qtbot, window, example_path):
+    # Issue 15: stopping on the residual with q held within [-5, 0] meets the stopping
+    # rule while the argon balance is still open; the window must not call it solved.
+    window.files.open_path(str(example_path("ammonia_synthesis_loop")))
+    window.case.settings.update(stop_on="residual", adaptive_bounds=False, max_iterations=2000)
+    press_f5_and_wait(qtbot, window)
+    assert window.case.solution.status == "failed"
+    assert window.status.state() == "not converged"
+    texts = [message for _severity, _where, message in window.log.entries()]
+    assert any("balances do not close" in text for text in texts)

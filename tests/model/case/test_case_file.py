@@ -5,6 +5,7 @@ from __future__ import annotations
 import copy
 import json
 import os
+import time
 from pathlib import Path
 
 import pytest
@@ -599,3 +600,21 @@ def test_fsync_is_called_before_the_rename(tmp_path: Path, monkeypatch) -> None:
 def test_unwritable_folder_is_a_case_file_error(tmp_path: Path) -> None:
     with pytest.raises(CaseFileError):
         save_case(every_spec_kind_case(), tmp_path / "no such folder" / "case.loop.json")
+
+
+def test_a_save_removes_temporaries_left_by_an_interrupted_save(tmp_path: Path) -> None:
+    # Regression (issue 15): a save killed before its rename left ".NAME.*.tmp" beside
+    # the case, and later saves never removed it.
+    case = load_case(EXAMPLES / "ammonia_synthesis_loop.loop.json")
+    path = tmp_path / "case.loop.json"
+    stale = [tmp_path / ".case.loop.json.k2j4.tmp", tmp_path / ".case.loop.json.bak.9x1.tmp"]
+    fresh = tmp_path / ".case.loop.json.now1.tmp"  # may be a save running right now
+    other = tmp_path / ".other.loop.json.k2j4.tmp"  # another case's
+    for leftover in [*stale, fresh, other]:
+        leftover.write_text("partial")
+    an_hour_ago = time.time() - 3600
+    for leftover in [*stale, other]:
+        os.utime(leftover, (an_hour_ago, an_hour_ago))
+    save_case(case, path)
+    names = sorted(p.name for p in tmp_path.iterdir())
+    assert names == sorted([path.name, fresh.name, other.name])

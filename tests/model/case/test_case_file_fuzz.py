@@ -20,6 +20,7 @@ from hypothesis import strategies as st
 
 from model.case.file import case_from_json, case_to_json, load_case
 from model.errors import CaseFileError
+from tests.model.case.mutations import NAMES, UNITS, json_paths, mutate
 
 EXAMPLES = Path(__file__).resolve().parents[3] / "examples"
 FUZZ_SETTINGS = settings(
@@ -37,63 +38,8 @@ BASE_TEXTS = [path.read_text("utf-8") for path in sorted(EXAMPLES.glob("*.loop.j
 BASE_TEXTS.append(_with_results())
 
 
-def _paths(node: Any, prefix: tuple = ()) -> list[tuple]:
-    """Every path (tuple of keys and indices) into a JSON document."""
-    found = [prefix] if prefix else []
-    if isinstance(node, dict):
-        for key, value in node.items():
-            found.extend(_paths(value, (*prefix, key)))
-    elif isinstance(node, list):
-        for index, value in enumerate(node):
-            found.extend(_paths(value, (*prefix, index)))
-    return found
+BASE_PATHS = [json_paths(json.loads(text)) for text in BASE_TEXTS]
 
-
-BASE_PATHS = [_paths(json.loads(text)) for text in BASE_TEXTS]
-
-UNITS = [
-    "degC",
-    "K",
-    "degF",
-    "bar",
-    "barg",
-    "psig",
-    "Pa",
-    "kmol/h",
-    "kg/h",
-    "t/h",
-    "mol/s",
-    "kW",
-    "MMBtu/h",
-    "W",
-    "m",
-    "kg",
-    "",
-    "mole fraction",
-    "mass fraction",
-    "fraction to first outlet",
-    "dimensionless",
-    "%",
-    "1/0",
-]
-NAMES = [
-    "Loop mixer",
-    "Converter",
-    "Make-up gas",
-    "Nowhere",
-    "Réacteur ✓",
-    "混合器",
-    " x",
-    "",
-    "in1",
-    "out2",
-    "out9",
-    "hot_in",
-    "argon",
-    "water",
-    "Purge",
-    "Recycle gas",
-]
 weird_numbers = st.one_of(
     st.floats(allow_nan=True, allow_infinity=True),
     st.integers(min_value=-(10**30), max_value=10**30),
@@ -115,38 +61,17 @@ weird_values = st.one_of(
 )
 
 
-def _parent(document: Any, path: tuple) -> tuple[Any, Any]:
-    node = document
-    for key in path[:-1]:
-        node = node[key]
-    return node, path[-1]
-
-
-def _mutate(document: Any, path: tuple, operation: str, value: Any) -> None:
-    parent, key = _parent(document, path)
-    if operation == "remove":
-        del parent[key]
-    elif operation == "replace":
-        parent[key] = value
-    elif operation == "duplicate" and isinstance(parent, list):
-        parent.append(json.loads(json.dumps(parent[key])))
-    elif operation == "rename" and isinstance(parent[key], str):
-        parent[key] = value if isinstance(value, str) else str(value)
-    else:
-        parent[key] = value
-
-
 @st.composite
 def mutated_case_texts(draw) -> str:
     base = draw(st.integers(min_value=0, max_value=len(BASE_TEXTS) - 1))
     document = json.loads(BASE_TEXTS[base])
     for _ in range(draw(st.integers(min_value=1, max_value=3))):
-        paths = _paths(document)
+        paths = json_paths(document)
         if not paths:
             break
         path = draw(st.sampled_from(paths))
         operation = draw(st.sampled_from(["remove", "replace", "duplicate", "rename"]))
-        _mutate(document, path, operation, draw(weird_values))
+        mutate(document, path, operation, draw(weird_values))
     text = json.dumps(document, indent=1, ensure_ascii=draw(st.booleans()))
     if draw(st.integers(min_value=0, max_value=9)) == 0:  # now and then: a truncated file
         text = text[: draw(st.integers(min_value=0, max_value=len(text)))]
@@ -186,7 +111,7 @@ def test_truncated_and_corrupted_bytes_never_raise_anything_else(base: int, data
 @given(st.sampled_from(BASE_PATHS[0]), weird_values)
 def test_any_single_replacement_in_the_ammonia_case(path: tuple, value: Any) -> None:
     document = json.loads(BASE_TEXTS[0])
-    _mutate(document, path, "replace", value)
+    mutate(document, path, "replace", value)
     _check_outcome(json.dumps(document))
 
 
@@ -195,7 +120,7 @@ def test_every_key_removed_in_turn(index: int) -> None:
     """Exhaustive: each key or item of each base file removed alone."""
     for path in BASE_PATHS[index]:
         document = json.loads(BASE_TEXTS[index])
-        _mutate(document, path, "remove", None)
+        mutate(document, path, "remove", None)
         _check_outcome(json.dumps(document))
 
 
