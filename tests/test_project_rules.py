@@ -65,3 +65,14 @@ def test_the_import_graph_sees_lazy_and_typing_imports() -> None:
     assert graph.has_edge("gui.solve_controller", "model.solve.driver")
     assert graph.has_edge("model.solve", "model.solve.driver")
     assert graph.has_edge("gui.files", "gui.window_host")
+
+
+def test_the_command_line_loads_scipy_optimize_only_when_a_run_needs_it() -> None:
+    """Start-up (issue 14): scipy.optimize (~200 ms) is for tears and the second opinion."""
+    code = (
+        "import sys, model.cli, model.case.file;"
+        "print([m for m in sys.modules if m.startswith('scipy.optimize')])"
+    )
+    run = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True)
+    assert run.returncode == 0, run.stderr
+    assert run.stdout.strip() == "[]"

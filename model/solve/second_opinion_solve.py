@@ -48,7 +48,6 @@ import time
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import root
 
 from model.errors import CalculationError, InputError
 from model.flowsheet.document import Flowsheet
@@ -248,6 +247,8 @@ def _find_root(
     system: StreamSystem, z: np.ndarray, methods: tuple[str, ...]
 ) -> tuple[np.ndarray, str]:
     """``z`` at the root: each method in turn from the best point so far."""
+    from scipy.optimize import root  # imported when a second opinion is asked for
+
     if system.size == 0:
         return z, "none (no stream to solve for)"
     best, best_residual = z, _residual_at(system, z)

@@ -61,8 +61,6 @@ from itertools import pairwise
 
 import networkx as nx
 import numpy as np
-from scipy.optimize import Bounds, LinearConstraint, milp
-from scipy.sparse import csr_array
 
 from model.errors import InputError
 
@@ -305,6 +303,10 @@ def _solve_cover(
     bundle_cost: dict[BundleKey, float], cycles: list[list[BundleKey]]
 ) -> set[BundleKey] | None:
     """Minimum-cost set of bundles meeting every cycle (scipy milp); None if unsolved."""
+    # scipy.optimize costs a few hundred ms to import: only a flowsheet with a loop pays it
+    from scipy.optimize import Bounds, LinearConstraint, milp
+    from scipy.sparse import csr_array
+
     columns = list(bundle_cost)
     column_of = {key: index for index, key in enumerate(columns)}
     rows, cols = [], []
