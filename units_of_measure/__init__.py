@@ -7,15 +7,23 @@ plain floats and numpy arrays only.
 """
 
 from .conversion import (
+    check_unit_length,
     from_internal,
     from_internal_array,
     resolve_unit,
     to_internal,
     to_internal_array,
 )
-from .errors import InputError, LoopwrightError, UnitError
+from .errors import (
+    InputError,
+    LoopwrightError,
+    TextTooLongError,
+    UnitError,
+    UnitTextTooLongError,
+)
 from .formatting import format_quantity, format_value
 from .kinds import KIND_ALIASES, KINDS, QuantityKind, display_units, get_kind
+from .limits import MAX_QUANTITY_TEXT_LENGTH, MAX_UNIT_TEXT_LENGTH, check_text_length
 from .parsing import parse_quantity, parse_to_internal
 from .registry import Quantity, Unit, ureg
 from .systems import UNIT_SYSTEMS, UnitSystem, get_unit_system
@@ -25,12 +33,18 @@ __all__ = [
     "KIND_ALIASES",
     "InputError",
     "LoopwrightError",
+    "MAX_QUANTITY_TEXT_LENGTH",
+    "MAX_UNIT_TEXT_LENGTH",
     "Quantity",
     "QuantityKind",
+    "TextTooLongError",
     "UNIT_SYSTEMS",
     "Unit",
     "UnitError",
     "UnitSystem",
+    "UnitTextTooLongError",
+    "check_text_length",
+    "check_unit_length",
     "display_units",
     "format_quantity",
     "format_value",

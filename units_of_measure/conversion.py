@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import math
 import re
+import sys
 import tokenize
 from functools import lru_cache
 from numbers import Real
@@ -20,8 +21,9 @@ import pint
 from numpy.typing import ArrayLike
 from pint.util import UnitsContainer, to_units_container
 
-from .errors import UnitError
+from .errors import UnitError, UnitTextTooLongError
 from .kinds import QuantityKind, get_kind
+from .limits import MAX_UNIT_TEXT_LENGTH, check_text_length
 from .registry import Quantity, ureg
 
 __all__ = [
@@ -30,6 +32,7 @@ __all__ = [
     "from_internal",
     "to_internal_array",
     "from_internal_array",
+    "check_unit_length",
 ]
 
 # Exceptions pint's unit parser raises on malformed text (its tokenizer uses assertions).
@@ -40,6 +43,7 @@ _PINT_PARSE_ERRORS = (
     AssertionError,
     IndexError,
     KeyError,
+    RecursionError,
     SyntaxError,
     TypeError,
     ValueError,
@@ -121,6 +125,18 @@ def _resolve_cached(unit: str, kind_name: str) -> pint.Unit:
     return ureg.Unit(units)
 
 
+def check_unit_length(unit: object, field: str) -> None:
+    """Refuse unit text over :data:`~.limits.MAX_UNIT_TEXT_LENGTH` characters, before pint.
+
+    Raises
+    ------
+    UnitTextTooLongError
+        Naming ``field``, the text's length and the limit; a :class:`UnitError`.
+    """
+    if isinstance(unit, str):
+        check_text_length(unit, field, MAX_UNIT_TEXT_LENGTH, "unit text", UnitTextTooLongError)
+
+
 def resolve_unit(unit: str, kind: str) -> pint.Unit:
     """Read unit text as a unit of ``kind``.
 
@@ -130,10 +146,12 @@ def resolve_unit(unit: str, kind: str) -> pint.Unit:
     Raises
     ------
     UnitError
-        Unknown unit, wrong dimension, or a unit the kind refuses (field ``"unit"``).
+        Unknown unit, wrong dimension, a unit the kind refuses, or text longer than
+        :data:`~.limits.MAX_UNIT_TEXT_LENGTH` (field ``"unit"``).
     """
     if not isinstance(unit, str):
         raise UnitError("unit", unit, "expected unit text such as 'kmol/h'")
+    check_unit_length(unit, "unit")
     return _resolve_cached(unit, get_kind(kind).name)
 
 
@@ -180,6 +198,30 @@ def _finite_float(magnitude: object, field: str, shown: object) -> float:
     return number
 
 
+def _check_finite(
+    internal_value: float,
+    linear_map: LinearMap,
+    unit: str,
+    kind: QuantityKind,
+    field: str,
+    shown: str,
+) -> None:
+    """Refuse a value whose conversion overflows (``1.7e308 barg`` is ``inf`` Pa).
+
+    The range named is the largest magnitude in ``unit`` that stays a finite float in
+    the internal unit.
+    """
+    if math.isfinite(internal_value):
+        return
+    largest = (sys.float_info.max - abs(linear_map.offset)) / abs(linear_map.scale)
+    raise UnitError(
+        field,
+        shown,
+        f"it converts to {internal_value} {kind.internal_unit}; expected {kind.description} "
+        f"between {-largest:.4g} and {largest:.4g} {unit}, finite in {kind.internal_unit}",
+    )
+
+
 def _check_physical(internal_value: float, kind: QuantityKind, field: str, shown: str) -> None:
     """Refuse temperatures below absolute zero and pressures below vacuum."""
     if kind.name == "temperature" and internal_value < 0.0:
@@ -209,8 +251,9 @@ def to_internal(
     Raises
     ------
     UnitError
-        Not a finite number; unit unknown or of the wrong dimension; a temperature below
-        absolute zero or a pressure below vacuum.
+        Not a finite number, before or after conversion; unit text over
+        :data:`~.limits.MAX_UNIT_TEXT_LENGTH` characters; unit unknown or of the wrong
+        dimension; a temperature below absolute zero or a pressure below vacuum.
 
     Examples
     --------
@@ -223,13 +266,15 @@ def to_internal(
         value, unit = _quantity_parts(value, unit, field)
     else:
         unit = _unit_text(unit, kind_spec, field)
+        check_unit_length(unit, field)
         shown = f"{value} {unit}"
     number = _finite_float(value, field, shown)
     try:
-        scale, offset = _linear_map(unit, kind_spec.name)
+        linear_map = _linear_map(unit, kind_spec.name)
     except UnitError as error:
         raise UnitError(field, shown, error.allowed) from None
-    internal_value = number * scale + offset
+    internal_value = number * linear_map.scale + linear_map.offset
+    _check_finite(internal_value, linear_map, unit, kind_spec, field, shown)
     _check_physical(internal_value, kind_spec, field, shown)
     return internal_value
 
