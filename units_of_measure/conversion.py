@@ -4,6 +4,9 @@ Each (unit, kind) pair is reduced once, with pint, to a linear map
 ``internal = scale * value + offset`` and cached. After that, conversions are plain float
 or numpy arithmetic, so the stream table can convert many values at once and the
 numerical layers never see a pint Quantity.
+
+pint and numpy are imported where they are first needed (pint with the registry, see
+:mod:`.registry`), so importing this package costs a few milliseconds.
 """
 
 from __future__ import annotations
@@ -14,17 +17,18 @@ import sys
 import tokenize
 from functools import lru_cache
 from numbers import Real
-from typing import NamedTuple
-
-import numpy as np
-import pint
-from numpy.typing import ArrayLike
-from pint.util import UnitsContainer, to_units_container
+from typing import TYPE_CHECKING, NamedTuple
 
 from .errors import UnitError, UnitTextTooLongError
 from .kinds import QuantityKind, get_kind
 from .limits import MAX_UNIT_TEXT_LENGTH, check_text_length
-from .registry import Quantity, ureg
+from .registry import get_registry
+
+if TYPE_CHECKING:
+    import numpy as np
+    import pint
+    from numpy.typing import ArrayLike
+    from pint.util import UnitsContainer
 
 __all__ = [
     "resolve_unit",
@@ -35,9 +39,9 @@ __all__ = [
     "check_unit_length",
 ]
 
-# Exceptions pint's unit parser raises on malformed text (its tokenizer uses assertions).
-_PINT_PARSE_ERRORS = (
-    pint.PintError,
+# Exceptions pint's unit parser raises on malformed text (its tokenizer uses assertions),
+# besides pint's own PintError.
+_PARSE_ERRORS = (
     ArithmeticError,
     AttributeError,
     AssertionError,
@@ -66,7 +70,7 @@ class LinearMap(NamedTuple):
 
 def _is_offset_unit(name: str) -> bool:
     """True for units whose zero is not the base zero: offset (degC, barg) or logarithmic."""
-    return ureg.Quantity(0.0, name).to_base_units().magnitude != 0.0
+    return get_registry().Quantity(0.0, name).to_base_units().magnitude != 0.0
 
 
 def _normalised_text(unit: str, kind: QuantityKind) -> str:
@@ -88,17 +92,22 @@ def _normalised_text(unit: str, kind: QuantityKind) -> str:
 
 def _parse_units(text: str, original: str, kind: QuantityKind) -> UnitsContainer:
     """Parse unit text with pint and check its dimension against ``kind``."""
+    import pint
+    from pint.util import to_units_container
+
+    registry = get_registry()
     try:
-        units = ureg.parse_units(text, as_delta=False)
-    except _PINT_PARSE_ERRORS:
+        units = registry.parse_units(text, as_delta=False)
+    except (pint.PintError, *_PARSE_ERRORS):
         raise UnitError("unit", original, f"unknown unit; {kind.expectation}") from None
-    if units.dimensionality != ureg.Unit(kind.internal_unit).dimensionality:
+    if units.dimensionality != registry.Unit(kind.internal_unit).dimensionality:
         raise UnitError("unit", original, kind.expectation)
-    return to_units_container(units, ureg)
+    return to_units_container(units, registry)
 
 
 def _units_for_kind(units: UnitsContainer, original: str, kind: QuantityKind) -> UnitsContainer:
     """Apply the kind's reading of offset units (see :mod:`units_of_measure.kinds`)."""
+    registry = get_registry()
     offset_names = [name for name in units if _is_offset_unit(name)]
     if kind.absolute_scale:
         if any(name.startswith("delta_") for name in units):
@@ -107,11 +116,11 @@ def _units_for_kind(units: UnitsContainer, original: str, kind: QuantityKind) ->
             raise UnitError("unit", original, f"offset unit in a product; {kind.expectation}")
         return units
     for name in offset_names:
-        dimensionality = ureg.get_dimensionality(name)
-        if dimensionality == ureg.get_dimensionality("pascal"):
+        dimensionality = registry.get_dimensionality(name)
+        if dimensionality == registry.get_dimensionality("pascal"):
             reason = "gauge units measure pressures, not differences"
             raise UnitError("unit", original, f"{reason}; {kind.expectation}")
-        if dimensionality != ureg.get_dimensionality("kelvin"):
+        if dimensionality != registry.get_dimensionality("kelvin"):
             raise UnitError("unit", original, f"logarithmic unit; {kind.expectation}")
         units = units.rename(name, f"delta_{name}")
     return units
@@ -122,7 +131,7 @@ def _resolve_cached(unit: str, kind_name: str) -> pint.Unit:
     kind = get_kind(kind_name)
     text = _normalised_text(unit, kind)
     units = _units_for_kind(_parse_units(text, unit, kind), unit, kind)
-    return ureg.Unit(units)
+    return get_registry().Unit(units)
 
 
 def check_unit_length(unit: object, field: str) -> None:
@@ -158,15 +167,18 @@ def resolve_unit(unit: str, kind: str) -> pint.Unit:
 @lru_cache(maxsize=512)
 def _linear_map(unit: str, kind_name: str) -> LinearMap:
     """Scale and offset from ``unit`` to the internal unit of ``kind_name``."""
+    from pint.util import to_units_container
+
     units = resolve_unit(unit, kind_name)
-    internal = ureg.Unit(get_kind(kind_name).internal_unit)
-    container = to_units_container(units, ureg)
+    registry = get_registry()
+    internal = registry.Unit(get_kind(kind_name).internal_unit)
+    container = to_units_container(units, registry)
     offset_names = [name for name in container if _is_offset_unit(name)]
     if not offset_names:
-        return LinearMap(ureg.Quantity(1.0, units).to(internal).magnitude, 0.0)
-    delta_units = ureg.Unit(container.rename(offset_names[0], f"delta_{offset_names[0]}"))
-    scale = ureg.Quantity(1.0, delta_units).to(internal).magnitude
-    offset = ureg.Quantity(0.0, units).to(internal).magnitude
+        return LinearMap(registry.Quantity(1.0, units).to(internal).magnitude, 0.0)
+    delta_units = registry.Unit(container.rename(offset_names[0], f"delta_{offset_names[0]}"))
+    scale = registry.Quantity(1.0, delta_units).to(internal).magnitude
+    offset = registry.Quantity(0.0, units).to(internal).magnitude
     return LinearMap(scale, offset)
 
 
@@ -179,11 +191,17 @@ def _unit_text(unit: str | None, kind: QuantityKind, field: str) -> str:
     return unit
 
 
+def _is_quantity(value: object) -> bool:
+    """True for a pint Quantity of any registry; while pint is not imported, none exists."""
+    pint = sys.modules.get("pint")
+    return pint is not None and isinstance(value, pint.Quantity)
+
+
 def _quantity_parts(value: pint.Quantity, unit: str | None, field: str) -> tuple[object, str]:
-    """Magnitude and unit text of a Quantity from :data:`ureg`."""
+    """Magnitude and unit text of a Quantity from the application's registry."""
     if unit is not None:
         raise UnitError(field, value, "give a Quantity or a number with a unit, not both")
-    if not isinstance(value, Quantity):
+    if not isinstance(value, get_registry().Quantity):
         raise UnitError(field, value, "expected a Quantity of Loopwright's registry")
     return value.magnitude, f"{value.units:D}"
 
@@ -240,7 +258,8 @@ def to_internal(
     Parameters
     ----------
     value
-        A real number, or a Quantity of :data:`ureg` (then ``unit`` must be None).
+        A real number, or a Quantity of the application's registry (then ``unit`` must
+        be None).
     unit
         Unit of a plain number; None only for dimensionless kinds such as ``fraction``.
     kind
@@ -261,7 +280,7 @@ def to_internal(
     298.15
     """
     kind_spec = get_kind(kind)
-    if isinstance(value, pint.Quantity):
+    if _is_quantity(value):
         shown = str(value)
         value, unit = _quantity_parts(value, unit, field)
     else:
@@ -287,11 +306,15 @@ def from_internal(value: float, kind: str, unit: str) -> float:
 
 def to_internal_array(values: ArrayLike, unit: str, kind: str) -> np.ndarray:
     """Vectorised :func:`to_internal` for plain numbers (no range checks; NaN passes)."""
+    import numpy as np
+
     scale, offset = _linear_map(unit, get_kind(kind).name)
     return np.asarray(values, dtype=float) * scale + offset
 
 
 def from_internal_array(values: ArrayLike, kind: str, unit: str) -> np.ndarray:
     """Vectorised :func:`from_internal`: internal-unit values to ``unit``."""
+    import numpy as np
+
     scale, offset = _linear_map(unit, get_kind(kind).name)
     return (np.asarray(values, dtype=float) - offset) / scale

@@ -8,14 +8,16 @@ and so that the unit is read the way its kind requires (see :mod:`.kinds`).
 from __future__ import annotations
 
 import re
-
-import pint
+from typing import TYPE_CHECKING
 
 from .conversion import check_unit_length, resolve_unit, to_internal
 from .errors import UnitError, UnitTextTooLongError
 from .kinds import get_kind
 from .limits import MAX_QUANTITY_TEXT_LENGTH, check_text_length
-from .registry import ureg
+from .registry import get_registry
+
+if TYPE_CHECKING:
+    import pint
 
 __all__ = ["parse_quantity", "parse_to_internal"]
 
@@ -99,7 +101,7 @@ def parse_quantity(
     451325.0
     """
     number, units, _ = _parse(text, kind, field, default_unit)
-    return ureg.Quantity(number, units)
+    return get_registry().Quantity(number, units)
 
 
 def parse_to_internal(
