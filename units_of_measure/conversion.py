@@ -4,25 +4,31 @@ Each (unit, kind) pair is reduced once, with pint, to a linear map
 ``internal = scale * value + offset`` and cached. After that, conversions are plain float
 or numpy arithmetic, so the stream table can convert many values at once and the
 numerical layers never see a pint Quantity.
+
+pint and numpy are imported where they are first needed (pint with the registry, see
+:mod:`.registry`), so importing this package costs a few milliseconds.
 """
 
 from __future__ import annotations
 
 import math
 import re
+import sys
 import tokenize
 from functools import lru_cache
 from numbers import Real
-from typing import NamedTuple
+from typing import TYPE_CHECKING, NamedTuple
 
-import numpy as np
-import pint
-from numpy.typing import ArrayLike
-from pint.util import UnitsContainer, to_units_container
-
-from .errors import UnitError
+from .errors import UnitError, UnitTextTooLongError
 from .kinds import QuantityKind, get_kind
-from .registry import Quantity, ureg
+from .limits import MAX_UNIT_TEXT_LENGTH, check_text_length
+from .registry import get_registry
+
+if TYPE_CHECKING:
+    import numpy as np
+    import pint
+    from numpy.typing import ArrayLike
+    from pint.util import UnitsContainer
 
 __all__ = [
     "resolve_unit",
@@ -30,16 +36,18 @@ __all__ = [
     "from_internal",
     "to_internal_array",
     "from_internal_array",
+    "check_unit_length",
 ]
 
-# Exceptions pint's unit parser raises on malformed text (its tokenizer uses assertions).
-_PINT_PARSE_ERRORS = (
-    pint.PintError,
+# Exceptions pint's unit parser raises on malformed text (its tokenizer uses assertions),
+# besides pint's own PintError.
+_PARSE_ERRORS = (
     ArithmeticError,
     AttributeError,
     AssertionError,
     IndexError,
     KeyError,
+    RecursionError,
     SyntaxError,
     TypeError,
     ValueError,
@@ -62,7 +70,7 @@ class LinearMap(NamedTuple):
 
 def _is_offset_unit(name: str) -> bool:
     """True for units whose zero is not the base zero: offset (degC, barg) or logarithmic."""
-    return ureg.Quantity(0.0, name).to_base_units().magnitude != 0.0
+    return get_registry().Quantity(0.0, name).to_base_units().magnitude != 0.0
 
 
 def _normalised_text(unit: str, kind: QuantityKind) -> str:
@@ -84,17 +92,22 @@ def _normalised_text(unit: str, kind: QuantityKind) -> str:
 
 def _parse_units(text: str, original: str, kind: QuantityKind) -> UnitsContainer:
     """Parse unit text with pint and check its dimension against ``kind``."""
+    import pint
+    from pint.util import to_units_container
+
+    registry = get_registry()
     try:
-        units = ureg.parse_units(text, as_delta=False)
-    except _PINT_PARSE_ERRORS:
+        units = registry.parse_units(text, as_delta=False)
+    except (pint.PintError, *_PARSE_ERRORS):
         raise UnitError("unit", original, f"unknown unit; {kind.expectation}") from None
-    if units.dimensionality != ureg.Unit(kind.internal_unit).dimensionality:
+    if units.dimensionality != registry.Unit(kind.internal_unit).dimensionality:
         raise UnitError("unit", original, kind.expectation)
-    return to_units_container(units, ureg)
+    return to_units_container(units, registry)
 
 
 def _units_for_kind(units: UnitsContainer, original: str, kind: QuantityKind) -> UnitsContainer:
     """Apply the kind's reading of offset units (see :mod:`units_of_measure.kinds`)."""
+    registry = get_registry()
     offset_names = [name for name in units if _is_offset_unit(name)]
     if kind.absolute_scale:
         if any(name.startswith("delta_") for name in units):
@@ -103,11 +116,11 @@ def _units_for_kind(units: UnitsContainer, original: str, kind: QuantityKind) ->
             raise UnitError("unit", original, f"offset unit in a product; {kind.expectation}")
         return units
     for name in offset_names:
-        dimensionality = ureg.get_dimensionality(name)
-        if dimensionality == ureg.get_dimensionality("pascal"):
+        dimensionality = registry.get_dimensionality(name)
+        if dimensionality == registry.get_dimensionality("pascal"):
             reason = "gauge units measure pressures, not differences"
             raise UnitError("unit", original, f"{reason}; {kind.expectation}")
-        if dimensionality != ureg.get_dimensionality("kelvin"):
+        if dimensionality != registry.get_dimensionality("kelvin"):
             raise UnitError("unit", original, f"logarithmic unit; {kind.expectation}")
         units = units.rename(name, f"delta_{name}")
     return units
@@ -118,7 +131,19 @@ def _resolve_cached(unit: str, kind_name: str) -> pint.Unit:
     kind = get_kind(kind_name)
     text = _normalised_text(unit, kind)
     units = _units_for_kind(_parse_units(text, unit, kind), unit, kind)
-    return ureg.Unit(units)
+    return get_registry().Unit(units)
+
+
+def check_unit_length(unit: object, field: str) -> None:
+    """Refuse unit text over :data:`~.limits.MAX_UNIT_TEXT_LENGTH` characters, before pint.
+
+    Raises
+    ------
+    UnitTextTooLongError
+        Naming ``field``, the text's length and the limit; a :class:`UnitError`.
+    """
+    if isinstance(unit, str):
+        check_text_length(unit, field, MAX_UNIT_TEXT_LENGTH, "unit text", UnitTextTooLongError)
 
 
 def resolve_unit(unit: str, kind: str) -> pint.Unit:
@@ -130,25 +155,30 @@ def resolve_unit(unit: str, kind: str) -> pint.Unit:
     Raises
     ------
     UnitError
-        Unknown unit, wrong dimension, or a unit the kind refuses (field ``"unit"``).
+        Unknown unit, wrong dimension, a unit the kind refuses, or text longer than
+        :data:`~.limits.MAX_UNIT_TEXT_LENGTH` (field ``"unit"``).
     """
     if not isinstance(unit, str):
         raise UnitError("unit", unit, "expected unit text such as 'kmol/h'")
+    check_unit_length(unit, "unit")
     return _resolve_cached(unit, get_kind(kind).name)
 
 
 @lru_cache(maxsize=512)
 def _linear_map(unit: str, kind_name: str) -> LinearMap:
     """Scale and offset from ``unit`` to the internal unit of ``kind_name``."""
+    from pint.util import to_units_container
+
     units = resolve_unit(unit, kind_name)
-    internal = ureg.Unit(get_kind(kind_name).internal_unit)
-    container = to_units_container(units, ureg)
+    registry = get_registry()
+    internal = registry.Unit(get_kind(kind_name).internal_unit)
+    container = to_units_container(units, registry)
     offset_names = [name for name in container if _is_offset_unit(name)]
     if not offset_names:
-        return LinearMap(ureg.Quantity(1.0, units).to(internal).magnitude, 0.0)
-    delta_units = ureg.Unit(container.rename(offset_names[0], f"delta_{offset_names[0]}"))
-    scale = ureg.Quantity(1.0, delta_units).to(internal).magnitude
-    offset = ureg.Quantity(0.0, units).to(internal).magnitude
+        return LinearMap(registry.Quantity(1.0, units).to(internal).magnitude, 0.0)
+    delta_units = registry.Unit(container.rename(offset_names[0], f"delta_{offset_names[0]}"))
+    scale = registry.Quantity(1.0, delta_units).to(internal).magnitude
+    offset = registry.Quantity(0.0, units).to(internal).magnitude
     return LinearMap(scale, offset)
 
 
@@ -161,11 +191,17 @@ def _unit_text(unit: str | None, kind: QuantityKind, field: str) -> str:
     return unit
 
 
+def _is_quantity(value: object) -> bool:
+    """True for a pint Quantity of any registry; while pint is not imported, none exists."""
+    pint = sys.modules.get("pint")
+    return pint is not None and isinstance(value, pint.Quantity)
+
+
 def _quantity_parts(value: pint.Quantity, unit: str | None, field: str) -> tuple[object, str]:
-    """Magnitude and unit text of a Quantity from :data:`ureg`."""
+    """Magnitude and unit text of a Quantity from the application's registry."""
     if unit is not None:
         raise UnitError(field, value, "give a Quantity or a number with a unit, not both")
-    if not isinstance(value, Quantity):
+    if not isinstance(value, get_registry().Quantity):
         raise UnitError(field, value, "expected a Quantity of Loopwright's registry")
     return value.magnitude, f"{value.units:D}"
 
@@ -178,6 +214,30 @@ def _finite_float(magnitude: object, field: str, shown: object) -> float:
     if not math.isfinite(number):
         raise UnitError(field, shown, "expected a finite number")
     return number
+
+
+def _check_finite(
+    internal_value: float,
+    linear_map: LinearMap,
+    unit: str,
+    kind: QuantityKind,
+    field: str,
+    shown: str,
+) -> None:
+    """Refuse a value whose conversion overflows (``1.7e308 barg`` is ``inf`` Pa).
+
+    The range named is the largest magnitude in ``unit`` that stays a finite float in
+    the internal unit.
+    """
+    if math.isfinite(internal_value):
+        return
+    largest = (sys.float_info.max - abs(linear_map.offset)) / abs(linear_map.scale)
+    raise UnitError(
+        field,
+        shown,
+        f"it converts to {internal_value} {kind.internal_unit}; expected {kind.description} "
+        f"between {-largest:.4g} and {largest:.4g} {unit}, finite in {kind.internal_unit}",
+    )
 
 
 def _check_physical(internal_value: float, kind: QuantityKind, field: str, shown: str) -> None:
@@ -198,7 +258,8 @@ def to_internal(
     Parameters
     ----------
     value
-        A real number, or a Quantity of :data:`ureg` (then ``unit`` must be None).
+        A real number, or a Quantity of the application's registry (then ``unit`` must
+        be None).
     unit
         Unit of a plain number; None only for dimensionless kinds such as ``fraction``.
     kind
@@ -209,8 +270,9 @@ def to_internal(
     Raises
     ------
     UnitError
-        Not a finite number; unit unknown or of the wrong dimension; a temperature below
-        absolute zero or a pressure below vacuum.
+        Not a finite number, before or after conversion; unit text over
+        :data:`~.limits.MAX_UNIT_TEXT_LENGTH` characters; unit unknown or of the wrong
+        dimension; a temperature below absolute zero or a pressure below vacuum.
 
     Examples
     --------
@@ -218,18 +280,20 @@ def to_internal(
     298.15
     """
     kind_spec = get_kind(kind)
-    if isinstance(value, pint.Quantity):
+    if _is_quantity(value):
         shown = str(value)
         value, unit = _quantity_parts(value, unit, field)
     else:
         unit = _unit_text(unit, kind_spec, field)
+        check_unit_length(unit, field)
         shown = f"{value} {unit}"
     number = _finite_float(value, field, shown)
     try:
-        scale, offset = _linear_map(unit, kind_spec.name)
+        linear_map = _linear_map(unit, kind_spec.name)
     except UnitError as error:
         raise UnitError(field, shown, error.allowed) from None
-    internal_value = number * scale + offset
+    internal_value = number * linear_map.scale + linear_map.offset
+    _check_finite(internal_value, linear_map, unit, kind_spec, field, shown)
     _check_physical(internal_value, kind_spec, field, shown)
     return internal_value
 
@@ -242,11 +306,15 @@ def from_internal(value: float, kind: str, unit: str) -> float:
 
 def to_internal_array(values: ArrayLike, unit: str, kind: str) -> np.ndarray:
     """Vectorised :func:`to_internal` for plain numbers (no range checks; NaN passes)."""
+    import numpy as np
+
     scale, offset = _linear_map(unit, get_kind(kind).name)
     return np.asarray(values, dtype=float) * scale + offset
 
 
 def from_internal_array(values: ArrayLike, kind: str, unit: str) -> np.ndarray:
     """Vectorised :func:`from_internal`: internal-unit values to ``unit``."""
+    import numpy as np
+
     scale, offset = _linear_map(unit, get_kind(kind).name)
     return (np.asarray(values, dtype=float) - offset) / scale

@@ -8,13 +8,16 @@ and so that the unit is read the way its kind requires (see :mod:`.kinds`).
 from __future__ import annotations
 
 import re
+from typing import TYPE_CHECKING
 
-import pint
-
-from .conversion import resolve_unit, to_internal
-from .errors import UnitError
+from .conversion import check_unit_length, resolve_unit, to_internal
+from .errors import UnitError, UnitTextTooLongError
 from .kinds import get_kind
-from .registry import ureg
+from .limits import MAX_QUANTITY_TEXT_LENGTH, check_text_length
+from .registry import get_registry
+
+if TYPE_CHECKING:
+    import pint
 
 __all__ = ["parse_quantity", "parse_to_internal"]
 
@@ -44,11 +47,13 @@ def _parse(
     kind_spec = get_kind(kind)
     if not isinstance(text, str):
         raise UnitError(field, text, f"not text; {kind_spec.expectation}")
+    check_text_length(text, field, MAX_QUANTITY_TEXT_LENGTH, "quantity text", UnitTextTooLongError)
     number, unit = _split_number_and_unit(text, field, kind_spec.expectation)
     if not unit:
         if default_unit is None and kind_spec.internal_unit != "dimensionless":
             raise UnitError(field, text, f"a unit is required; {kind_spec.expectation}")
         unit = default_unit if default_unit is not None else "1"
+    check_unit_length(unit, field)
     try:
         units = resolve_unit(unit, kind_spec.name)
         internal_value = to_internal(number, unit, kind_spec.name, field)
@@ -83,7 +88,9 @@ def parse_quantity(
     Raises
     ------
     UnitError
-        Not a number, NaN or infinity, a missing or unknown unit, a unit of the wrong
+        Text over :data:`~.limits.MAX_QUANTITY_TEXT_LENGTH` characters (or its unit over
+        :data:`~.limits.MAX_UNIT_TEXT_LENGTH`), checked before any parsing; not a
+        number, NaN or infinity, a missing or unknown unit, a unit of the wrong
         dimension, a temperature below absolute zero or a pressure below vacuum. The
         message names ``field``, the text and what was expected, e.g.
         ``Feed.T: '3 kg' is not allowed; expected a temperature such as degC, K, degF``.
@@ -94,7 +101,7 @@ def parse_quantity(
     451325.0
     """
     number, units, _ = _parse(text, kind, field, default_unit)
-    return ureg.Quantity(number, units)
+    return get_registry().Quantity(number, units)
 
 
 def parse_to_internal(

@@ -17,17 +17,27 @@ registries. On top of pint's defaults the registry adds or fixes:
 Offset units (degC, degF, barg, ...) are converted to base units automatically when they
 appear in products, so ``"25 degC"`` and ``"3.5 barg"`` parse; computing is done in
 kelvin and pascal by the conversion helpers, never on offset values.
+
+The registry is built on first use, not at import: importing pint and loading its
+definitions takes a few hundred milliseconds that the command line and the window's
+start-up should not pay before they convert anything. :func:`get_registry` builds it
+once, under a lock, however many threads ask at the same moment; the module attributes
+``ureg``, ``Quantity`` and ``Unit`` (also importable by name) call it.
 """
 
 from __future__ import annotations
 
 import contextlib
 import logging
+import threading
 from collections.abc import Iterator
+from typing import TYPE_CHECKING, Any
 
-import pint
+if TYPE_CHECKING:
+    import pint
 
-__all__ = ["ureg", "Quantity", "Unit", "PROCESS_UNIT_DEFINITIONS"]
+# ``ureg``, ``Quantity`` and ``Unit`` are module attributes made on first use (__getattr__).
+__all__ = ["PROCESS_UNIT_DEFINITIONS", "get_registry"]
 
 #: Definitions added to pint's defaults, in pint's definition syntax.
 PROCESS_UNIT_DEFINITIONS: tuple[str, ...] = (
@@ -58,6 +68,8 @@ def _quiet_redefinition_log() -> Iterator[None]:
 
 def _build_registry() -> pint.UnitRegistry:
     """Create pint's default registry and add :data:`PROCESS_UNIT_DEFINITIONS`."""
+    import pint
+
     registry = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
     with _quiet_redefinition_log():
         for definition in PROCESS_UNIT_DEFINITIONS:
@@ -65,9 +77,44 @@ def _build_registry() -> pint.UnitRegistry:
     return registry
 
 
-#: The application's unit registry.
-ureg: pint.UnitRegistry = _build_registry()
-#: Quantity class bound to :data:`ureg`.
-Quantity = ureg.Quantity
-#: Unit class bound to :data:`ureg`.
-Unit = ureg.Unit
+_registry: pint.UnitRegistry | None = None
+_build_lock = threading.Lock()
+
+
+def get_registry() -> pint.UnitRegistry:
+    """The application's unit registry, built on the first call (thread-safe).
+
+    Every caller, in any thread, gets the same registry object: the first call builds it
+    while holding a lock, and calls that arrive meanwhile wait for it instead of building
+    a second one. Later calls cost one global look-up.
+
+    Examples
+    --------
+    >>> get_registry() is get_registry()
+    True
+    """
+    registry = _registry
+    if registry is None:
+        registry = _build_once()
+    return registry
+
+
+def _build_once() -> pint.UnitRegistry:
+    """Build the registry unless another thread did while this one waited for the lock."""
+    global _registry
+    with _build_lock:
+        if _registry is None:
+            registry = _build_registry()
+            # bind the public names, so later look-ups no longer go through __getattr__
+            globals().update(ureg=registry, Quantity=registry.Quantity, Unit=registry.Unit)
+            _registry = registry
+        return _registry
+
+
+def __getattr__(name: str) -> Any:
+    """``ureg`` (the registry), ``Quantity`` and ``Unit`` (its classes), built on first use."""
+    if name == "ureg":
+        return get_registry()
+    if name in ("Quantity", "Unit"):
+        return getattr(get_registry(), name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
