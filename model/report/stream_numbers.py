@@ -29,8 +29,8 @@ def numbered_stream_order(flowsheet: Any) -> list[str]:
 
 
 def stream_label(number: int | None, name: str) -> str:
-    """The label on a stream's line: ``"3  Recycle gas"`` (the name alone without a number)."""
-    return name if number is None else f"{number}  {name}"
+    """The label on a stream's line: ``"3 · Recycle gas"`` (the name alone without a number)."""
+    return name if number is None else f"{number} · {name}"
 
 
 def number_text(number: int | None) -> str:

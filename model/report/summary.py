@@ -25,6 +25,15 @@ def exported_at(when: _datetime.datetime | None = None) -> str:
     return (when or _datetime.datetime.now()).strftime("%Y-%m-%d %H:%M")
 
 
+def status_text(solution: Any) -> str:
+    """``"solved: converged in 6 iterations ..."``: the status, then the solver's message
+    (which may start with the status itself)."""
+    message = solution.message or ""
+    if message.startswith(solution.status):
+        return message
+    return f"{solution.status}: {message}" if message else solution.status
+
+
 def summary_rows(
     case: Any, source: str | Path | None = None, when: _datetime.datetime | None = None
 ) -> list[tuple[str, str]]:
@@ -47,7 +56,7 @@ def summary_rows(
     if solution is None:
         return [*rows, ("Solver status", "not solved")]
     rows += [
-        ("Solver status", f"{solution.status}: {solution.message}".rstrip(": ")),
+        ("Solver status", status_text(solution)),
         ("Method", case.method),
         ("Flowsheet passes", str(solution.passes)),
         ("Tear streams", ", ".join(solution.tear_streams) or "none (no recycle)"),

@@ -102,5 +102,5 @@ def test_every_example_numbers_its_streams_one_to_n_in_process_order() -> None:
 
 
 def test_the_label_puts_the_number_before_the_users_name() -> None:
-    assert stream_label(3, "Recycle gas") == "3  Recycle gas"
+    assert stream_label(3, "Recycle gas") == "3 · Recycle gas"
     assert stream_label(None, "S1") == "S1"
