@@ -47,6 +47,8 @@ class CaseExports:
 
     def _ask(self, kind: str) -> bool:
         title, filter_text, suffix = EXPORTS[kind]
+        if not self._window.results_current and not self._confirm_stale(title):
+            return False
         path, _ = QFileDialog.getSaveFileName(
             self._window, title, self.suggested_path(suffix), filter_text
         )
@@ -55,6 +57,16 @@ class CaseExports:
         if not path.lower().endswith(suffix):
             path += suffix
         return self.export(kind, path)
+
+    def _confirm_stale(self, title: str) -> bool:
+        """Ask whether to export results that predate the last edits."""
+        answer = QMessageBox.question(
+            self._window,
+            title,
+            "The case has changed since it was last solved; the export shows the last "
+            "solution, not the case as it is now. Export anyway? (F5 solves it again.)",
+        )
+        return answer == QMessageBox.StandardButton.Yes
 
     def export(self, kind: str, path: str) -> bool:
         """Write the ``kind`` export (``"xlsx"`` or ``"report"``) to ``path``."""

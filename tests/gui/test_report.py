@@ -13,6 +13,7 @@ from pathlib import Path
 import openpyxl
 import pytest
 from PySide6.QtGui import QColor
+from PySide6.QtWidgets import QMessageBox
 
 from gui.diagram import look
 from gui.diagram.stream_item import StreamItem
@@ -194,3 +195,29 @@ def test_export_report_from_the_command_line_needs_no_display(tmp_path):
     assert done.returncode == 0, done.stderr
     assert target.read_bytes().startswith(b"%PDF-")
     assert sorted(p.name for p in tmp_path.iterdir()) == ["loop.pdf", "loop.xlsx"]
+
+
+def test_exporting_results_older_than_the_last_edit_asks_first(
+    qtbot, window, example_path, tmp_path, monkeypatch
+):
+    assert window.files.open_path(str(example_path("shift_feed_effluent_exchanger")))
+    with qtbot.waitSignal(window.solver.finished, timeout=60000):
+        window.actions["solve"].trigger()
+    window.case.flowsheet.move_block("Raw gas", (-40.0, 0.0))  # not an edit of the balance
+    assert window.results_current
+    window.case.flowsheet.set_preferred_tear("Bypass", True)  # an edit: results now stale
+    assert not window.results_current
+    questions = []
+    monkeypatch.setattr(
+        "gui.exports.QMessageBox.question",
+        lambda *args: questions.append(args[2]) or QMessageBox.StandardButton.No,
+    )
+    monkeypatch.setattr(
+        "gui.exports.QFileDialog.getSaveFileName",
+        lambda *args: (str(tmp_path / "late.xlsx"), ""),
+    )
+    window.actions["export_xlsx"].trigger()
+    assert "changed since it was last solved" in questions[0]
+    assert not (tmp_path / "late.xlsx").exists()
+    window.select_stream("Bypass")
+    assert window.details.stream_page.title_label.text().endswith("· stream 5")
