@@ -1,8 +1,10 @@
 """The ``loopwright`` command: the window, or the headless sub-commands.
 
 ``loopwright`` and ``loopwright CASE`` open the window; ``loopwright solve ...`` and
-``loopwright export ...`` run headless from ``model.cli`` without loading Qt. The
-dispatch lives in ``gui`` because only ``gui`` may import both layers.
+``loopwright export ...`` run headless from ``model.cli`` without loading Qt, except
+that ``export --report`` draws the diagram with an off-screen Qt application
+(``gui.report``), handed to ``model.cli`` as its report writer. The dispatch lives in
+``gui`` because only ``gui`` may import both layers.
 """
 
 from __future__ import annotations
@@ -18,18 +20,26 @@ def main(argv: list[str] | None = None) -> int:
     if args and args[0] in HEADLESS_COMMANDS:
         from model.cli import main as headless_main
 
-        return headless_main(args)
+        return headless_main(args, report_writer=_report_writer)
     if args and args[0] in ("-h", "--help"):
         print(
             "usage: loopwright [CASE.loop.json]\n"
             "       loopwright solve CASE [--units SYSTEM] [--method NAME] "
             "[--q-min Q] [--q-max Q] [--json]\n"
-            "       loopwright export CASE --csv FILE [--units SYSTEM]"
+            "       loopwright export CASE [--csv FILE] [--xlsx FILE] [--report FILE] "
+            "[--units SYSTEM]"
         )
         return 0
     from gui.app import run_app
 
     return run_app(args[0] if args else None)
+
+
+def _report_writer(case, source: str) -> bytes:
+    """The PDF report (Qt is loaded only now, for ``export --report``)."""
+    from gui.report import report_for_command_line
+
+    return report_for_command_line(case, source)
 
 
 if __name__ == "__main__":

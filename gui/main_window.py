@@ -19,12 +19,14 @@ from gui.diagram.editor import DiagramEditor
 from gui.diagram.scene import DiagramScene
 from gui.diagram.shelf import BlockShelf
 from gui.diagram.view import DiagramView
+from gui.exports import CaseExports
 from gui.files import AUTOSAVE_SECONDS, CaseFiles
 from gui.solve_controller import preload_solver_modules
 from gui.status_line import StatusLine
 from gui.window_actions import build_actions, fill_recent_menu
 from gui.window_solve import WindowSolveMixin
 from model.case.document import Case
+from model.report.report_order import ReportOrder
 
 
 def default_window_size() -> tuple[int, int]:
@@ -76,6 +78,7 @@ class MainWindow(WindowSolveMixin, QMainWindow):
         self.status = StatusLine(self)
         self.setStatusBar(self.status)
         self.files = CaseFiles(self, autosave_seconds)
+        self.exports = CaseExports(self)
         self._build_docks()
         self.actions = build_actions(self)
         for dock in (self.shelf_dock, self.details_dock, self.results_dock):
@@ -266,7 +269,8 @@ class MainWindow(WindowSolveMixin, QMainWindow):
         self._sync_choosers()
         self.scene.set_unit_system(name)
         self.details.set_unit_system(name)
-        self.stream_table.set_solution(self.case.solution, name, list(self.case.flowsheet.streams))
+        order = ReportOrder.of(self.case.flowsheet)
+        self.stream_table.set_solution(self.case.solution, name, report_order=order)
         self._update_title()
 
     def _files_changed(self) -> None:

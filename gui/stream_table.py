@@ -1,23 +1,23 @@
 """The stream table: every stream of a solution as a column, in the chosen unit system.
 
-Columns follow the flowsheet's stream order (the order of ``Flowsheet.streams``, which
-is the case's order); tear streams are marked in teal with "(tear)". Rows: phase,
-temperature, pressure, total molar flow, mass flow, enthalpy flow, then each
+Columns follow the streams' numbers (``model.report.stream_numbers``; without numbers
+the flowsheet's stream order); each header shows the number above the stream's name,
+as the diagram labels its line; tear streams are marked in teal with "(tear)". Rows:
+phase, temperature, pressure, total molar flow, mass flow, enthalpy flow, then each
 component's molar flow and mole fraction. :class:`StreamTableModel` is a
 ``QAbstractTableModel`` adapter: the display role gives formatted text in display units,
 ``VALUE_ROLE`` the number in display units and ``INTERNAL_ROLE`` the model's own number
-(mol/s, K, Pa, W). Copy gives tab-separated text; CSV export starts with the cautions.
+(mol/s, K, Pa, W). Copy gives tab-separated text; the CSV export is the model's
+(``model.report.csv_file``: cautions, stream table, block results, closures).
 
-Round-off floor: in each row, a value whose magnitude is below :data:`ROW_FLOOR` times
-the row's largest magnitude is shown (and copied and exported) as 0. An enthalpy flow of
--4.7e-13 kW beside flows of thousands of kW is the round-off of a sum that is zero (a
-feed of elements at 298.15 K), not a result; the number itself stays in ``VALUE_ROLE``.
+Round-off floor: in each row, a value whose magnitude is below
+:data:`model.report.table.ROW_FLOOR` times the row's largest magnitude is shown (and
+copied and exported) as 0 (see ``model.report.table``); the number itself stays in
+``VALUE_ROLE``.
 """
 
 from __future__ import annotations
 
-import csv
-import math
 from dataclasses import dataclass
 from typing import Any
 
@@ -34,12 +34,15 @@ from PySide6.QtWidgets import (
 )
 
 from model import report
-from model.report.cautions import CAUTIONS
+from model.case.file import write_file_atomically
+from model.report.csv_file import results_csv
+from model.report.report_order import ReportOrder
+from model.report.table import ROW_FLOOR, round_off_floor
 from units_of_measure import UNIT_SYSTEMS, format_value, from_internal
 
+__all__ = ["ROW_FLOOR", "StreamTable", "StreamTableModel", "TableRow", "build_rows"]
+
 VALUE_ROLE = Qt.ItemDataRole.UserRole
-#: Relative floor below which a value counts as 0 in its row (see the module docstring).
-ROW_FLOOR = 1e-12
 INTERNAL_ROLE = Qt.ItemDataRole.UserRole + 1
 TEAR_COLOUR = QColor("#00796b")
 
@@ -65,8 +68,7 @@ class TableRow:
     @property
     def floor(self) -> float:
         """Magnitudes below this are shown as 0: :data:`ROW_FLOOR` x the row's largest."""
-        numbers = [abs(v) for v in self.shown if not isinstance(v, str) and math.isfinite(v)]
-        return ROW_FLOOR * max(numbers, default=0.0)
+        return round_off_floor(self.shown)
 
     def text(self, column: int, floor: float | None = None) -> str:
         """The display text of one value, round-off below the row's floor shown as 0."""
@@ -140,11 +142,26 @@ class StreamTableModel(QAbstractTableModel):
         self.names: list[str] = []
         self.rows: list[TableRow] = []
         self.tears: set[str] = set()
+        self.numbers: dict[str, int] = {}
 
-    def set_content(self, names: list[str], rows: list[TableRow], tears: set[str]) -> None:
+    def set_content(
+        self,
+        names: list[str],
+        rows: list[TableRow],
+        tears: set[str],
+        numbers: dict[str, int] | None = None,
+    ) -> None:
         self.beginResetModel()
         self.names, self.rows, self.tears = list(names), list(rows), set(tears)
+        self.numbers = dict(numbers or {})
         self.endResetModel()
+
+    def column_title(self, section: int) -> str:
+        """``"3\nRecycle gas (tear)"``: the stream's number over its name."""
+        name = self.names[section]
+        title = f"{name} (tear)" if name in self.tears else name
+        number = self.numbers.get(name)
+        return title if number is None else f"{number}\n{title}"
 
     def rowCount(self, parent: QModelIndex = QModelIndex()) -> int:  # noqa: B008
         return 0 if parent.isValid() else len(self.rows)
@@ -174,8 +191,7 @@ class StreamTableModel(QAbstractTableModel):
         horizontal = orientation == Qt.Orientation.Horizontal
         if role == Qt.ItemDataRole.DisplayRole:
             if horizontal:
-                name = self.names[section]
-                return f"{name} (tear)" if name in self.tears else name
+                return self.column_title(section)
             return self.rows[section].title
         if role == Qt.ItemDataRole.FontRole and not horizontal and not self.rows[section].shown:
             font = QFont()
@@ -189,8 +205,11 @@ class StreamTableModel(QAbstractTableModel):
         return None
 
     def table_lines(self) -> list[list[str]]:
-        """Header line and one line per row, as display text (for copy and CSV)."""
+        """Header lines (the stream numbers when the streams have them, the names) and one
+        line per row, as display text (for copy)."""
         lines = [["", *self.names]]
+        if self.numbers:
+            lines.insert(0, ["Stream", *(str(self.numbers.get(n, "")) for n in self.names)])
         for row in self.rows:
             values = row.texts() if row.shown else [""] * len(self.names)
             lines.append([row.title.strip(), *values])
@@ -226,6 +245,7 @@ class StreamTable(QWidget):
         layout.addWidget(self.view, 1)
         self._solution: Any = None
         self._unit_system = "Metric"
+        self._order = ReportOrder()
         self.copy_button.clicked.connect(self.copy_to_clipboard)
         self.export_button.clicked.connect(self.ask_export)
         self.view.horizontalHeader().sectionDoubleClicked.connect(self._activate_column)
@@ -235,15 +255,24 @@ class StreamTable(QWidget):
         shortcut.activated.connect(self.copy_to_clipboard)
 
     def set_solution(
-        self, solution: Any, unit_system: str, stream_order: list[str] | None = None
+        self,
+        solution: Any,
+        unit_system: str,
+        stream_order: list[str] | None = None,
+        report_order: ReportOrder | None = None,
     ) -> None:
-        """Show ``solution``'s streams (None empties the table) in ``unit_system``, as
-        columns in ``stream_order`` (the flowsheet's stream names; default: the
-        solution's order)."""
+        """Show ``solution``'s streams (None empties the table) in ``unit_system``.
+
+        ``report_order`` (:meth:`ReportOrder.of` the flowsheet) gives the columns in
+        number order under their numbers, and the blocks' order and kinds for the CSV;
+        without it, ``stream_order`` (stream names) or else the solution's order.
+        """
         self._solution, self._unit_system = solution, unit_system
-        names = stream_names(solution, stream_order)
+        self._order = report_order or ReportOrder(streams=list(stream_order or []))
+        names = stream_names(solution, self._order.streams)
         tears = set(getattr(solution, "tear_streams", []) or [])
-        self.model.set_content(names, build_rows(solution, unit_system, names), tears)
+        rows = build_rows(solution, unit_system, names)
+        self.model.set_content(names, rows, tears, self._order.numbers)
         self.view.resizeColumnsToContents()
         self.status_label.setText(self._status_text())
         balance = getattr(solution, "balance", None)
@@ -275,26 +304,10 @@ class StreamTable(QWidget):
         return text
 
     def export_csv(self, path: str) -> None:
-        """Write the table to ``path``; the first line is ``"# "`` and the cautions."""
-        with open(path, "w", newline="", encoding="utf-8") as handle:
-            handle.write("# " + " ".join(CAUTIONS) + "\n")
-            handle.write(f"# units: {self._unit_system}\n")
-            writer = csv.writer(handle)
-            writer.writerow(["", *self.model.names])
-            for row in self.model.rows:
-                if not row.shown:
-                    writer.writerow([row.title.strip()])
-                    continue
-                floor = row.floor
-                writer.writerow(
-                    [
-                        row.title.strip(),
-                        *(
-                            v if isinstance(v, str) else ("0" if abs(v) < floor else f"{v:.10g}")
-                            for v in row.shown
-                        ),
-                    ]
-                )
+        """Write the CSV export to ``path`` (atomically): the cautions on the first line,
+        the stream table, the block results and the balance closures."""
+        text = results_csv(self._solution, self._unit_system, self._order)
+        write_file_atomically(path, text.encode("utf-8"))
 
     def ask_export(self) -> bool:
         """Ask for a file name and export the table to it; True when written."""

@@ -18,6 +18,9 @@ from convergence import METHODS
 from gui.window_host import ActionHost
 from units_of_measure import UNIT_SYSTEMS
 
+#: The File menu's exports: enabled once the case has a solution.
+EXPORT_ACTIONS = ("export_csv", "export_xlsx", "export_report")
+
 
 @dataclass
 class WindowActions:
@@ -33,6 +36,11 @@ class WindowActions:
 
     def __getitem__(self, name: str) -> QAction:
         return self.actions[name]
+
+    def enable_exports(self, enabled: bool) -> None:
+        """File → Export … on (the case has a solution) or off."""
+        for name in EXPORT_ACTIONS:
+            self.actions[name].setEnabled(enabled)
 
 
 def _action(
@@ -65,10 +73,28 @@ def build_actions(window: ActionHost) -> WindowActions:
         window,
         a,
         "export_csv",
-        "&Export Stream Table…",
+        "Export &CSV…",
         window.stream_table.ask_export,
         None,
-        "Write the stream table to a CSV file (its first line carries the cautions)",
+        "Write the stream table, block results and closures to a CSV file (cautions first)",
+    )
+    _action(
+        window,
+        a,
+        "export_xlsx",
+        "Export &Spreadsheet…",
+        window.exports.ask_xlsx,
+        None,
+        "Write the summary, stream table, block results and closures to an .xlsx file",
+    )
+    _action(
+        window,
+        a,
+        "export_report",
+        "Export &Report…",
+        window.exports.ask_report,
+        "Ctrl+P",
+        "Write a printable report (PDF): the diagram, the tables and the cautions",
     )
     _action(window, a, "quit", "&Quit", window.close, key.Quit)
     a["undo"] = window.undo_stack.createUndoAction(window, "&Undo")
@@ -120,7 +146,8 @@ def build_actions(window: ActionHost) -> WindowActions:
     _action(window, a, "clear_recent", "Clear Recent Files", files.clear_recent)
     a["stop"].setEnabled(False)
     a["second_opinion"].setEnabled(False)
-    a["export_csv"].setEnabled(False)
+    for name in EXPORT_ACTIONS:
+        a[name].setEnabled(False)
     _build_choosers(window, result)
     _build_menus(window, result)
     _build_toolbar(window, result)
@@ -162,7 +189,7 @@ def _build_menus(window: ActionHost, result: WindowActions) -> None:
     result.recent_menu = file_menu.addMenu("Open &Recent")
     file_menu.addActions([a["save"], a["save_as"]])
     file_menu.addSeparator()
-    file_menu.addAction(a["export_csv"])
+    file_menu.addActions([a[name] for name in EXPORT_ACTIONS])
     file_menu.addSeparator()
     file_menu.addAction(a["quit"])
     edit_menu = bar.addMenu("&Edit")

@@ -33,6 +33,7 @@ class ActionHost(Protocol):
     editor: Any
     view: Any
     stream_table: Any
+    exports: Any
     undo_stack: QUndoStack
     panels_menu: Any
 

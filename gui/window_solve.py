@@ -12,6 +12,7 @@ from __future__ import annotations
 from typing import Any
 
 from gui.status_line import SOLUTION_STATES, closure_text
+from model.report.report_order import ReportOrder
 from units_of_measure import format_value
 
 EDIT_ACTIONS = ("new", "open", "copy", "paste", "delete", "rename", "components")
@@ -139,7 +140,8 @@ class WindowSolveMixin:
         self.results_current = current and solution is not None
         self.update_solve_actions()
         unit_system = self.case.unit_system
-        self.stream_table.set_solution(solution, unit_system, list(self.case.flowsheet.streams))
+        order = ReportOrder.of(self.case.flowsheet)
+        self.stream_table.set_solution(solution, unit_system, report_order=order)
         self.scene.set_unit_system(unit_system)
         self.scene.set_results(solution, self.results_current)
         self.details.set_solution(solution)
@@ -181,4 +183,4 @@ class WindowSolveMixin:
         self.actions["second_opinion"].setEnabled(
             idle and self.case.solution is not None and self.results_current
         )
-        self.actions["export_csv"].setEnabled(self.case.solution is not None)
+        self.actions.enable_exports(self.case.solution is not None)

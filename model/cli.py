@@ -9,8 +9,12 @@ prints the largest relative difference from the sequential answer (in JSON:
 ``--stop-on`` chooses the stopping rule ("estimated error" or "residual") and
 ``--fixed-bounds`` keeps q within the given bounds (no adaptive widening); see
 :class:`convergence.SolverSettings`.
-``export CASE --csv FILE`` solves the case and writes its stream table as CSV. Exit
-status: 0 converged, 1 not converged, 2 bad input or a bad file (the message goes to
+``export CASE --csv FILE --xlsx FILE --report FILE`` solves the case and writes any of:
+a CSV file (cautions, stream table, block results, closures), a spreadsheet
+(:mod:`model.report.xlsx`) and the printable report. The report draws the diagram with
+Qt, which the model never imports: the ``loopwright`` command (``gui.launcher``) hands
+``main`` a ``report_writer`` that does it. Every file is written to a temporary file and
+renamed. Exit status: 0 converged, 1 not converged, 2 bad input or a bad file (the message goes to
 standard error); the second opinion does not change it.
 
 Examples
@@ -26,15 +30,18 @@ import json
 import math
 import os
 import sys
+from collections.abc import Callable
 from typing import Any
 
 from convergence import METHODS
 from convergence.settings import STOP_RULES
 from model.case.document import Case
-from model.case.file import load_case
+from model.case.file import load_case, write_file_atomically
 from model.errors import LoopwrightError
-from model.report.table import stream_table, stream_table_csv
+from model.report.csv_file import results_csv
+from model.report.report_order import ReportOrder
 from model.report.text import solution_report, solution_summary
+from model.report.xlsx import workbook_bytes
 from model.solve.second_opinion_solve import AGREEMENT_TOLERANCE, SecondOpinion, second_opinion
 from units_of_measure import UNIT_SYSTEMS
 
@@ -43,6 +50,9 @@ EXIT_NOT_CONVERGED = 1
 EXIT_BAD_INPUT = 2
 #: Solve states that mean the input cannot be solved as it stands.
 BAD_INPUT_STATES = ("needs input",)
+#: Makes the printable report of a solved case: ``(case, case path) -> file bytes``.
+ReportWriter = Callable[[Case, str], bytes]
+EXPORT_FORMATS = ("csv", "xlsx", "report")
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -85,9 +95,19 @@ def build_parser() -> argparse.ArgumentParser:
         metavar="TOL",
         help=f"largest relative difference that agrees (default {AGREEMENT_TOLERANCE:g})",
     )
-    export = commands.add_parser("export", help="solve a case and write its stream table")
+    export = commands.add_parser(
+        "export", help="solve a case and write its results: CSV, spreadsheet, printable report"
+    )
     _add_common(export)
-    export.add_argument("--csv", required=True, metavar="FILE", help="CSV file to write")
+    export.add_argument(
+        "--csv", metavar="FILE", help="CSV file: cautions, stream table, block results, closures"
+    )
+    export.add_argument(
+        "--xlsx", metavar="FILE", help="spreadsheet: summary, streams, block results, closures"
+    )
+    export.add_argument(
+        "--report", metavar="FILE", help="printable report (PDF) with the diagram and tables"
+    )
     return parser
 
 
@@ -114,13 +134,21 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
     )
 
 
-def main(argv: list[str] | None = None) -> int:
-    """Run ``solve`` or ``export`` (``argv[0]``, default ``sys.argv[1:]``); return the status."""
+def main(argv: list[str] | None = None, report_writer: ReportWriter | None = None) -> int:
+    """Run ``solve`` or ``export`` (``argv[0]``, default ``sys.argv[1:]``); return the status.
+
+    ``report_writer`` makes ``export --report``'s file (``gui.report_export``); without
+    one, ``--report`` is refused.
+    """
     parser = build_parser()
     try:
         args = parser.parse_args(sys.argv[1:] if argv is None else argv)
     except SystemExit as stop:  # argparse has printed the usage and the problem
         return EXIT_BAD_INPUT if stop.code not in (0, None) else 0
+    refusal = _export_refusal(args, report_writer)
+    if refusal:
+        print(f"loopwright export: {refusal}", file=sys.stderr)
+        return EXIT_BAD_INPUT
     try:
         case = _prepared_case(args)
         solution = case.solve()
@@ -139,11 +167,15 @@ def main(argv: list[str] | None = None) -> int:
         except BrokenPipeError:  # the reader (e.g. ``head``) stopped early: not an error
             sys.stdout = open(os.devnull, "w")  # noqa: SIM115 - Python flushes it at exit
     else:
-        try:
-            _write_csv(case, args.csv)
-        except OSError as error:
-            print(f"loopwright export: {args.csv}: {error.strerror or error}", file=sys.stderr)
-            return EXIT_BAD_INPUT
+        for name in EXPORT_FORMATS:
+            path = getattr(args, name)
+            if path is None:
+                continue
+            try:
+                write_file_atomically(path, _export_bytes(name, case, args.case, report_writer))
+            except OSError as error:
+                print(f"loopwright export: {path}: {error.strerror or error}", file=sys.stderr)
+                return EXIT_BAD_INPUT
     return EXIT_CONVERGED if solution.converged else EXIT_NOT_CONVERGED
 
 
@@ -183,9 +215,9 @@ def _print_solution(case: Case, as_json: bool, opinion: SecondOpinion | None = N
     if case.title:
         print(case.title)
         print()
-    streams = list(case.flowsheet.streams)
-    blocks = list(case.flowsheet.blocks)
-    sys.stdout.write(solution_report(solution, case.unit_system, streams, blocks))
+    order = ReportOrder.of(case.flowsheet)
+    text = solution_report(solution, case.unit_system, order.streams, order.blocks, order.numbers)
+    sys.stdout.write(text)
     if opinion is not None:
         print()
         print(second_opinion_line(opinion))
@@ -220,15 +252,31 @@ def second_opinion_line(opinion: SecondOpinion) -> str:
     return line
 
 
-def _write_csv(case: Case, path: str) -> None:
-    solution = case.solution
-    table = stream_table(solution, case.unit_system, list(case.flowsheet.streams))
-    text = stream_table_csv(table)
-    if not solution.converged:
-        first, rest = text.split("\n", 1)
-        text = f"{first}\n# {solution.status}: {solution.message}\n{rest}"
-    with open(path, "w", encoding="utf-8", newline="") as handle:
-        handle.write(text)
+def _export_refusal(args: argparse.Namespace, report_writer: ReportWriter | None) -> str:
+    """Why an ``export`` cannot start (``""`` when it can)."""
+    if args.command != "export":
+        return ""
+    if all(getattr(args, name) is None for name in EXPORT_FORMATS):
+        return "name at least one file to write: --csv FILE, --xlsx FILE or --report FILE"
+    if args.report is not None and report_writer is None:
+        return (
+            "--report needs the diagram drawing of the window package; run it as "
+            "'loopwright export' (the installed command)"
+        )
+    return ""
+
+
+def _export_bytes(
+    name: str, case: Case, case_path: str, report_writer: ReportWriter | None
+) -> bytes:
+    """The content of one export file of the solved ``case``."""
+    if name == "csv":
+        order = ReportOrder.of(case.flowsheet)
+        return results_csv(case.solution, case.unit_system, order).encode("utf-8")
+    if name == "xlsx":
+        return workbook_bytes(case, case_path)
+    assert report_writer is not None  # refused before the solve otherwise
+    return report_writer(case, case_path)
 
 
 if __name__ == "__main__":

@@ -3,6 +3,7 @@ its initial estimate for when the solver tears it."""
 
 from __future__ import annotations
 
+import html
 from collections.abc import Callable
 from typing import Any
 
@@ -83,7 +84,8 @@ class StreamDetails(QWidget):
             self.estimate_editor.hide()
             return
         stream = flowsheet.stream(self.stream_name)
-        self.title_label.setText(f"<b>{stream.name}</b> · stream")
+        number = "" if stream.number is None else f" {stream.number}"
+        self.title_label.setText(f"<b>{html.escape(stream.name)}</b> · stream{number}")
         self.route_label.setText(
             f"From {stream.source} ({stream.source_port}) to {stream.target} ({stream.target_port})"
         )

@@ -1,5 +1,5 @@
 """Graphics item for a material stream: an orthogonal dark slate line with an arrowhead,
-its name at the midpoint, and a teal double bar when it is a tear stream."""
+its number and name at the midpoint, and a teal double bar when it is a tear stream."""
 
 from __future__ import annotations
 
@@ -20,6 +20,7 @@ from PySide6.QtWidgets import QGraphicsItem, QStyleOptionGraphicsItem
 
 from gui.diagram import look
 from model.flowsheet.document import Stream
+from model.report.stream_numbers import stream_label
 
 
 @cache
@@ -97,12 +98,17 @@ class StreamItem(QGraphicsItem):
         self.prepareGeometryChange()
         self._update_label_rect()
 
+    def label_text(self) -> str:
+        """The words on the line: the stream's number and name (as the stream table heads
+        its column)."""
+        return stream_label(self.stream.number, self.stream.name)
+
     def midpoint(self) -> QPointF:
         return self._path.pointAtPercent(0.5) if self._points else QPointF()
 
     def _update_label_rect(self) -> None:
         metrics = QFontMetricsF(_label_font())
-        width = metrics.horizontalAdvance(self.stream.name) + 8
+        width = metrics.horizontalAdvance(self.label_text()) + 8
         height = metrics.height() + 2
         middle = self.midpoint()
         self._label_rect = QRectF(middle.x() - width / 2, middle.y() - height - 3, width, height)
@@ -145,7 +151,7 @@ class StreamItem(QGraphicsItem):
         painter.drawRoundedRect(self._label_rect, 3, 3)
         painter.setFont(_label_font())
         painter.setPen(colour)
-        painter.drawText(self._label_rect, Qt.AlignmentFlag.AlignCenter, self.stream.name)
+        painter.drawText(self._label_rect, Qt.AlignmentFlag.AlignCenter, self.label_text())
 
     def _paint_arrowhead(self, painter: QPainter, colour) -> None:
         tip = self._points[-1]

@@ -88,6 +88,7 @@ def _stream_to_dict(stream: Stream) -> dict[str, Any]:
         "to": {"block": stream.target, "port": stream.target_port},
         "preferred_tear": stream.preferred_tear,
         "estimate": None if stream.estimate is None else stream.estimate.to_dict(),
+        "number": stream.number,
     }
 
 
@@ -143,7 +144,16 @@ def _file_mode(target: Path) -> int:
         return 0o666 & ~_UMASK
 
 
-def _write_atomically(target: Path, payload: bytes) -> None:
+def write_file_atomically(path: str | os.PathLike[str], payload: bytes) -> None:
+    """Write ``payload`` to ``path`` through a synced temporary file in the same folder
+    and a rename, so the file is either the old one or the whole new one (exports).
+
+    Raises :class:`OSError` when the file cannot be written; nothing is left behind.
+    """
+    _write_atomically(Path(path), payload, keep_backup=False)
+
+
+def _write_atomically(target: Path, payload: bytes, keep_backup: bool = True) -> None:
     folder = target.resolve().parent
     mode = _file_mode(target)
     handle, temporary = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
@@ -153,7 +163,7 @@ def _write_atomically(target: Path, payload: bytes) -> None:
             stream.write(payload)
             stream.flush()
             os.fsync(stream.fileno())
-        if target.exists():
+        if keep_backup and target.exists():
             _keep_backup(target)
         os.replace(temporary, target)
     except BaseException:

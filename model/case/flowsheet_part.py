@@ -22,7 +22,7 @@ from model.flowsheet.kinds import BLOCK_KINDS
 from model.flowsheet.spec_values import ComponentAmounts, StreamEstimate
 
 BLOCK_KEYS = ("kind", "name", "position", "specs")
-STREAM_KEYS = ("name", "from", "to", "preferred_tear", "estimate")
+STREAM_KEYS = ("name", "from", "to", "preferred_tear", "estimate", "number")
 ESTIMATE_KEYS = ("flows_mol_s", "T_K", "P_Pa")
 
 
@@ -182,10 +182,18 @@ def _keep_exact_numbers(block: Block, field_name: str, read: Any) -> None:
 
 
 def _read_streams(problems: Problems, items: list[Any], flowsheet: Flowsheet) -> None:
-    """Insert the streams in the file's order; the flowsheet says which port is wrong."""
-    for index, item in enumerate(items):
-        path = join("streams", index)
-        stream = _read_stream(problems, path, item, flowsheet)
+    """Insert the streams in the file's order; the flowsheet says which port is wrong.
+
+    A stream without a ``number`` (a file written before streams had numbers, or by a
+    script) gets the next one above the file's highest, in the file's order, so the
+    numbers come out the same every time the file is read.
+    """
+    read = [
+        (join("streams", index), _read_stream(problems, join("streams", index), item, flowsheet))
+        for index, item in enumerate(items)
+    ]
+    _number_unnumbered([stream for _, stream in read if stream is not None])
+    for path, stream in read:
         if stream is None:
             continue
         if stream.name in flowsheet.streams:
@@ -207,9 +215,31 @@ def _read_stream(problems: Problems, path: str, item: Any, flowsheet: Flowsheet)
     target = _read_end(problems, join(path, "to"), data.get("to", MISSING), flowsheet)
     preferred = problems.boolean(join(path, "preferred_tear"), data.get("preferred_tear", False))
     estimate = _read_estimate(problems, join(path, "estimate"), data.get("estimate"), flowsheet)
+    number = _read_stream_number(problems, join(path, "number"), data.get("number"))
     if len(problems) != count or name is None or source is None or target is None:
         return None
-    return Stream(name, source[0], source[1], target[0], target[1], bool(preferred), estimate)
+    stream = Stream(name, source[0], source[1], target[0], target[1], bool(preferred), estimate)
+    stream.number = number
+    return stream
+
+
+def _read_stream_number(problems: Problems, path: str, value: Any) -> int | None:
+    """An optional whole number >= 1 (JSON integer)."""
+    if value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, int) or value < 1:
+        problems.add(path, value, "a whole number of 1 or more (the stream's number), or none")
+        return None
+    return value
+
+
+def _number_unnumbered(streams: list[Stream]) -> None:
+    """Give each stream without a number the next one above the highest given."""
+    highest = max((s.number or 0 for s in streams), default=0)
+    for stream in streams:
+        if stream.number is None:
+            highest += 1
+            stream.number = highest
 
 
 def _read_end(

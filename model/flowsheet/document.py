@@ -40,7 +40,13 @@ class Block:
 
 @dataclass(eq=False)
 class Stream:
-    """A material stream from one block's outlet port to another block's inlet port."""
+    """A material stream from one block's outlet port to another block's inlet port.
+
+    ``number`` is the stream's short number on the diagram and in the stream table
+    header (an H&MB's stream number); the flowsheet gives one when the stream is first
+    inserted and the stream keeps it for good (undo, save and reopen), so numbers stay
+    stable while the user's names stay free text.
+    """
 
     name: str
     source: str
@@ -49,6 +55,7 @@ class Stream:
     target_port: str
     preferred_tear: bool = False
     estimate: StreamEstimate | None = None
+    number: int | None = None
 
 
 class Flowsheet:
@@ -266,6 +273,10 @@ class Flowsheet:
                 return candidate
         raise AssertionError("unreachable")
 
+    def next_stream_number(self) -> int:
+        """The number a new stream gets: one above the highest in use (1 for the first)."""
+        return 1 + max((s.number or 0 for s in self.streams.values()), default=0)
+
     def connect(
         self, source: str, source_port: str, target: str, target_port: str, name: str | None = None
     ) -> Stream:
@@ -318,6 +329,9 @@ class Flowsheet:
                 f"{stream.target}.{stream.target_port}",
                 f"a free inlet port; {taken.name} already enters it",
             )
+        _check_stream_number(stream, self.streams)
+        if stream.number is None:
+            stream.number = self.next_stream_number()
         self.streams[stream.name] = stream
         self.stream_added.emit(stream)
         self.structure_changed.emit()
@@ -386,6 +400,20 @@ def _check_estimate(field: str, estimate: StreamEstimate, components: list[str])
                 value,
                 f"an absolute {label} above zero, in {unit}, or no estimate",
             )
+
+
+def _check_stream_number(stream: Stream, streams: dict[str, Stream]) -> None:
+    """A stream's own number, when it has one, is a whole number >= 1 not used by another."""
+    number = stream.number
+    if number is None:
+        return
+    if isinstance(number, bool) or not isinstance(number, int) or number < 1:
+        raise InputError(f"{stream.name}.number", number, "a whole number of 1 or more")
+    holder = next((s.name for s in streams.values() if s.number == number), None)
+    if holder is not None:
+        raise InputError(
+            f"{stream.name}.number", number, f"a number not already used; {holder} has it"
+        )
 
 
 def _check_name(what: str, name: Any, taken: dict[str, Any]) -> None:

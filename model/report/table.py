@@ -1,20 +1,34 @@
 """The stream table: one column per stream, one row per quantity, in a unit system.
 
 Rows: phase, T, P, total molar flow, mass flow, each component's flow and mole
-fraction, enthalpy flow. Every number is converted once from internal units; the text
-and CSV forms are made from the same table, so the window, the command line and the
-exports show the same numbers.
+fraction, enthalpy flow. Columns carry the streams' names and their numbers
+(``model.report.stream_numbers``). Every number is converted once from internal units;
+the text, CSV and spreadsheet forms are made from the same table, so the window, the
+command line and the exports show the same numbers.
+
+Round-off floor: in each row, a value whose magnitude is below :data:`ROW_FLOOR` times
+the row's largest magnitude is shown as 0. An enthalpy flow of -4.7e-13 kW beside flows
+of thousands of kW is the round-off of a sum that is zero (a feed of elements at
+298.15 K), not a result.
 """
 
 from __future__ import annotations
 
-import csv
-import io
+import math
 from dataclasses import dataclass
 from typing import Any
 
-from model.report.cautions import CAUTIONS
+from model.report.stream_numbers import number_text
 from units_of_measure import format_value, from_internal, get_unit_system
+
+#: Relative floor below which a value counts as 0 in its row (see the module docstring).
+ROW_FLOOR = 1e-12
+
+
+def round_off_floor(values: Any) -> float:
+    """Magnitudes below this are round-off: :data:`ROW_FLOOR` x the largest finite one."""
+    numbers = [abs(v) for v in values if not isinstance(v, str) and math.isfinite(v)]
+    return ROW_FLOOR * max(numbers, default=0.0)
 
 
 @dataclass(frozen=True)
@@ -38,13 +52,17 @@ class TableRow:
     unit: str
     values: tuple[Any, ...]
 
-    def cells(self) -> list[str]:
-        """The values as display text in :attr:`unit`."""
+    def shown(self) -> tuple[Any, ...]:
+        """The values in :attr:`unit` (text as it is), round-off below the row's floor as 0."""
         if not self.kind:
-            return [str(value) for value in self.values]
-        return [
-            format_value(from_internal(value, self.kind, self.unit_or_one)) for value in self.values
-        ]
+            return tuple(str(value) for value in self.values)
+        converted = [from_internal(value, self.kind, self.unit_or_one) for value in self.values]
+        floor = round_off_floor(converted)
+        return tuple(0.0 if abs(value) < floor else float(value) for value in converted)
+
+    def cells(self) -> list[str]:
+        """The values as display text in :attr:`unit` (5 significant digits)."""
+        return [v if isinstance(v, str) else format_value(v) for v in self.shown()]
 
     @property
     def unit_or_one(self) -> str:
@@ -58,6 +76,12 @@ class StreamTable:
     unit_system: str
     columns: tuple[str, ...]
     rows: tuple[TableRow, ...]
+    numbers: tuple[int | None, ...] = ()
+
+    def column_numbers(self) -> list[str]:
+        """Each column's stream number as header text (``""`` where a stream has none)."""
+        numbers = self.numbers or (None,) * len(self.columns)
+        return [number_text(number) for number in numbers]
 
 
 def display_unit(system: Any, kind: str) -> str:
@@ -67,12 +91,16 @@ def display_unit(system: Any, kind: str) -> str:
 
 
 def stream_table(
-    solution: Any, unit_system: str, stream_order: list[str] | None = None
+    solution: Any,
+    unit_system: str,
+    stream_order: list[str] | None = None,
+    stream_numbers: dict[str, int] | None = None,
 ) -> StreamTable:
     """Build the stream table of ``solution`` in ``unit_system``.
 
-    ``stream_order`` fixes the column order (the flowsheet's stream order); by default
-    the solution's own order.
+    ``stream_order`` fixes the column order (the flowsheet's stream order, or its
+    number order); by default the solution's own order. ``stream_numbers`` (name ->
+    number, :func:`model.report.stream_numbers.stream_numbers`) heads the columns.
     """
     system = get_unit_system(unit_system)
     names = [n for n in (stream_order or list(solution.streams)) if n in solution.streams]
@@ -109,7 +137,8 @@ def stream_table(
     rows.append(
         _row(system, "Enthalpy flow", "power", [state.enthalpy_flow(basis) for state in states])
     )
-    return StreamTable(unit_system, tuple(names), tuple(rows))
+    numbers = tuple((stream_numbers or {}).get(name) for name in names)
+    return StreamTable(unit_system, tuple(names), tuple(rows), numbers)
 
 
 def _row(system: Any, label: str, kind: str, values: list[float]) -> TableRow:
@@ -121,13 +150,16 @@ def _mole_fraction(state: Any, index: int) -> float:
 
 
 def stream_table_text(table: StreamTable) -> str:
-    """The stream table as aligned plain text (first column: quantity and unit)."""
-    header = ["", *table.columns]
-    lines = [header]
+    """The stream table as aligned plain text: a line of stream numbers (when the
+    streams have them), a line of names, then one line per quantity with its unit."""
+    lines = []
+    if any(table.column_numbers()):
+        lines.append(["Stream", *table.column_numbers()])
+    lines.append(["", *table.columns])
     for row in table.rows:
         label = f"{row.label} [{row.unit}]" if row.unit else row.label
         lines.append([label, *row.cells()])
-    widths = [max(len(line[i]) for line in lines) for i in range(len(header))]
+    widths = [max(len(line[i]) for line in lines) for i in range(len(lines[0]))]
     return "\n".join(
         "  ".join(
             cell.ljust(widths[0]) if i == 0 else cell.rjust(widths[i])
@@ -137,12 +169,13 @@ def stream_table_text(table: StreamTable) -> str:
     )
 
 
-def stream_table_csv(table: StreamTable) -> str:
-    """The stream table as CSV text; the first line is a ``# `` comment with the cautions."""
-    buffer = io.StringIO()
-    buffer.write("# " + " ".join(CAUTIONS) + "\n")
-    writer = csv.writer(buffer, lineterminator="\n")
-    writer.writerow(["Quantity", "Unit", *table.columns])
-    for row in table.rows:
-        writer.writerow([row.label, row.unit, *row.cells()])
-    return buffer.getvalue()
+def stream_table_rows(table: StreamTable) -> list[list[Any]]:
+    """The stream table as rows of cells for a CSV file or a spreadsheet: the stream
+    numbers (``"Stream"``), the names (``"Quantity"``, ``"Unit"``), then per quantity its
+    label, unit and values in the unit (numbers as floats, round-off as 0)."""
+    rows: list[list[Any]] = [
+        ["Stream", "", *table.column_numbers()],
+        ["Quantity", "Unit", *table.columns],
+    ]
+    rows += [[row.label, row.unit, *row.shown()] for row in table.rows]
+    return rows

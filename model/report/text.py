@@ -7,55 +7,30 @@ is converted once from internal units to the chosen unit system and formatted wi
 
 from __future__ import annotations
 
-import math
 from typing import Any
 
+from model.report.block_table import WARNING, result_rows
 from model.report.cautions import CAUTIONS
-from model.report.table import display_unit, stream_table, stream_table_text
-from units_of_measure import UnitError, format_value, from_internal, get_kind, get_unit_system
+from model.report.report_order import ReportOrder
+from model.report.table import stream_table, stream_table_text
+from units_of_measure import format_value
 
 
 def block_duty_lines(
     solution: Any, unit_system: str, block_order: list[str] | None = None
 ) -> list[str]:
-    """``"Reactor: -1234.5 kW"`` for every block with a duty, then its other results."""
-    system = get_unit_system(unit_system)
-    lines = []
-    for name in block_order or list(solution.blocks):
-        result = solution.blocks.get(name)
-        if result is None:
+    """``"Reactor: duty -1234.5 kW, ..."`` for every block with results (warnings are in
+    the log)."""
+    order = ReportOrder(blocks=list(block_order or []))
+    parts: dict[str, list[str]] = {}
+    for row in result_rows(solution, unit_system, order):
+        if row.quantity == WARNING:
             continue
-        parts = []
-        if result.duty_W is not None:
-            parts.append("duty " + _quantity(result.duty_W, "power", system))
-        for label, (value, kind) in result.values.items():
-            parts.append(
-                f"{label} " + (_quantity(value, kind, system) if kind else format_value(value))
-            )
-        if parts:
-            lines.append(f"{name}: " + ", ".join(parts))
-    return lines
-
-
-def _known_kind(kind: str) -> str | None:
-    """The ``units_of_measure`` kind for a result's kind name (``"UA"`` is its alias ``"ua"``)."""
-    for candidate in (kind, kind.lower()):
-        try:
-            return get_kind(candidate).name
-        except UnitError:
-            continue
-    return None
-
-
-def _quantity(value: float, kind: str, system: Any) -> str:
-    if value is None or not math.isfinite(value):
-        return "n/a" if value is None else format_value(value)
-    known = _known_kind(kind)
-    if known is None:  # a kind the unit layer does not know: show the internal value as is
-        return f"{format_value(value)} ({kind}, internal units)"
-    unit = display_unit(system, known)
-    number = format_value(from_internal(value, known, unit or "1"))
-    return f"{number} {unit}" if unit else number
+        number = format_value(row.value)
+        parts.setdefault(row.item, []).append(
+            f"{row.quantity} {number} {row.unit}" if row.unit else f"{row.quantity} {number}"
+        )
+    return [f"{name}: " + ", ".join(texts) for name, texts in parts.items()]
 
 
 def convergence_lines(solution: Any) -> list[str]:
@@ -94,14 +69,16 @@ def solution_report(
     unit_system: str,
     stream_order: list[str] | None = None,
     block_order: list[str] | None = None,
+    stream_numbers: dict[str, int] | None = None,
 ) -> str:
-    """The full text report: cautions, convergence, stream table, duties, closures, issues."""
+    """The full text report: cautions, convergence, stream table (headed by the stream
+    numbers when given), duties, closures, issues."""
     sections = [
         ["Cautions:", *(f"  {text}" for text in CAUTIONS)],
         ["Convergence:", *(f"  {line}" for line in convergence_lines(solution))],
     ]
     if solution.streams:
-        table = stream_table(solution, unit_system, stream_order)
+        table = stream_table(solution, unit_system, stream_order, stream_numbers)
         sections.append([f"Stream table ({unit_system}):", stream_table_text(table)])
     duties = block_duty_lines(solution, unit_system, block_order)
     if duties:

@@ -25,6 +25,7 @@ from gui.stream_table import (  # noqa: E402
 )
 from model.case.file import load_case  # noqa: E402
 from model.report.cautions import CAUTIONS  # noqa: E402
+from model.report.report_order import ReportOrder  # noqa: E402
 from model.validation.issue import Issue  # noqa: E402
 from units_of_measure import from_internal  # noqa: E402
 
@@ -114,15 +115,18 @@ def test_copy_gives_tab_separated_text(table, solution):
     assert float(cells[1]) == pytest.approx(expected, rel=1e-4)  # 5 significant digits
 
 
-def test_csv_starts_with_the_cautions(table, solution, tmp_path):
-    table.set_solution(solution, "Metric")
+def test_csv_starts_with_the_cautions_and_has_the_block_results(table, solution, tmp_path):
+    case = load_case(EXAMPLE)
+    table.set_solution(solution, "Metric", report_order=ReportOrder.of(case.flowsheet))
     path = tmp_path / "streams.csv"
     table.export_csv(str(path))
     lines = path.read_text(encoding="utf-8").splitlines()
     assert lines[0] == "# " + " ".join(CAUTIONS)
-    assert lines[2].split(",")[1:] == table.model.names
-    temperature = next(line for line in lines if line.startswith("Temperature [degC]"))
-    numbers = np.array([float(v) for v in temperature.split(",")[1:]])
+    assert lines[1] == "Stream,," + ",".join(str(n) for n in range(1, 9))
+    assert lines[2].split(",")[2:] == table.model.names
+    assert "Converter,Reactor,duty,kW," in "\n".join(lines)  # the block results below
+    temperature = next(line for line in lines if line.startswith("Temperature,degC"))
+    numbers = np.array([float(v) for v in temperature.split(",")[2:]])
     expected = [
         from_internal(solution.streams[n].T, "temperature", "degC") for n in table.model.names
     ]
@@ -220,7 +224,7 @@ def test_the_make_up_gas_enthalpy_flow_shows_as_zero(table, solution, qtbot, tmp
     exported = next(
         line for line in path.read_text("utf-8").splitlines() if line.startswith("Enthalpy flow")
     )
-    assert exported.split(",")[1 + column_of(table, "Make-up")] == "0"
+    assert exported.split(",")[2 + column_of(table, "Make-up")] == "0"
     # the details pane's stream view shows the same text
     case = load_case(EXAMPLE)
     stack = QUndoStack()

@@ -162,25 +162,35 @@ def test_export_writes_the_stream_table_as_csv_with_a_caution_line(capsys, tmp_p
     rows = list(csv.reader(lines[1:]))
     case = load_case(HYDRATION)
     solution = case.solve()
-    assert rows[0] == ["Quantity", "Unit", *case.flowsheet.streams]
-    by_label = {row[0]: row for row in rows[1:]}
+    numbers = [str(s.number) for s in case.flowsheet.streams.values()]
+    assert rows[0] == ["Stream", "", *numbers]  # the examples number streams in file order
+    assert rows[1] == ["Quantity", "Unit", *case.flowsheet.streams]
+    table_end = rows.index([])
+    by_label = {row[0]: row for row in rows[2:table_end]}
     assert by_label["Temperature"][1] == "K"
     assert float(by_label["Temperature"][2 + 5]) == pytest.approx(
-        solution.streams["Reactor feed"].T, rel=1e-5
-    )  # 5 significant digits
+        solution.streams["Reactor feed"].T, rel=1e-9
+    )  # 10 significant digits
     assert by_label["Molar flow ethanol"][1] == "mol/s"
     assert by_label["Phase"][2:] == [s.phase for s in solution.streams.values()]
-    assert len(rows) == 1 + 5 + 2 * 3 + 1  # phase, T, P, total, mass; per component x2; H
+    assert table_end == 2 + 5 + 2 * 3 + 1  # phase, T, P, total, mass; per component x2; H
+    # below the stream table: every block result, then the closures
+    blocks = rows[table_end + 1 :]
+    assert blocks[:2] == [["Block results"], ["Block", "Kind", "Quantity", "Unit", "Value"]]
+    duty = next(r for r in blocks if r[0] == "Hydration reactor" and r[2] == "duty")
+    assert duty[1] == "Reactor" and duty[3] == "W"
+    assert float(duty[4]) == pytest.approx(solution.blocks["Hydration reactor"].duty_W, rel=1e-9)
+    assert ["Balance closures"] in blocks
 
 
 def test_export_in_metric_converts_units(capsys, tmp_path) -> None:
     target = tmp_path / "metric.csv"
     assert _run(capsys, "export", str(AMMONIA), "--csv", str(target))[0] == 0
-    rows = {row[0]: row for row in csv.reader(target.read_text("utf-8").splitlines()[1:])}
+    rows = {row[0]: row for row in csv.reader(target.read_text("utf-8").splitlines()[1:]) if row}
     solution = load_case(AMMONIA).solve()
     assert rows["Pressure"][1] == "bar"
     # 150 barg = 151.01325 bar absolute (gauge + 1.01325 bar, NIST SP 811 atm).
-    assert rows["Pressure"][2] == "151.01"
+    assert float(rows["Pressure"][2]) == pytest.approx(151.01325, rel=1e-9)
     purge = list(load_case(AMMONIA).flowsheet.streams).index("Purge")
     assert float(rows["Enthalpy flow"][2 + purge]) == pytest.approx(
         from_internal(solution.streams["Purge"].enthalpy_flow(solution.basis), "power", "kW"),
@@ -221,4 +231,5 @@ def test_export_of_an_unconverged_case_says_so_and_exits_with_1(capsys, tmp_path
     lines = target.read_text("utf-8").splitlines()
     assert lines[0].startswith("# Results are preliminary")
     assert lines[1].startswith("# not converged: ")
-    assert lines[2].startswith("Quantity,Unit,")
+    assert lines[2].startswith("Stream,,1,2,")
+    assert lines[3].startswith("Quantity,Unit,")
