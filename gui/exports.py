@@ -14,7 +14,6 @@ from typing import Any
 from PySide6.QtWidgets import QFileDialog, QMessageBox
 
 from model.case.file import write_file_atomically
-from model.report.xlsx import workbook_bytes
 
 #: Export kind -> (dialog title, file-name filter, suffix).
 EXPORTS = {
@@ -84,6 +83,8 @@ class CaseExports:
     def _content(self, kind: str) -> bytes:
         window = self._window
         if kind == "xlsx":
+            from model.report.xlsx import workbook_bytes  # openpyxl: loaded on first export
+
             return workbook_bytes(window.case, window.files.path)
         from gui.report import report_pdf_bytes  # the report's modules load on first use
 

@@ -60,10 +60,11 @@ def test_no_module_imports_one_that_imports_it_back() -> None:
 
 def test_the_import_graph_sees_lazy_and_typing_imports() -> None:
     # the graph the circle check relies on: a function-level import (the window's solve
-    # controller imports the driver when a solve starts) and a package face's re-exports
+    # controller imports the driver when a solve starts), a submodule imported by name
+    # from its package, and an ordinary import
     graph = import_graph(ROOT)
     assert graph.has_edge("gui.solve_controller", "model.solve.driver")
-    assert graph.has_edge("model.solve", "model.solve.driver")
+    assert graph.has_edge("model.flowsheet.spec_checks", "model.flowsheet.value_checks")
     assert graph.has_edge("gui.files", "gui.window_host")
 
 
@@ -76,3 +77,17 @@ def test_the_command_line_loads_scipy_optimize_only_when_a_run_needs_it() -> Non
     run = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True)
     assert run.returncode == 0, run.stderr
     assert run.stdout.strip() == "[]"
+
+
+def test_package_faces_import_their_modules_only_when_a_name_is_used() -> None:
+    """A lazy face (model/lazy.py): the diagram need not load the spreadsheet writer."""
+    code = (
+        "import sys, model.report.stream_numbers, model.solve.passes;"
+        "heavy = ('model.report.xlsx', 'openpyxl', 'model.solve.second_opinion_solve');"
+        "print([m for m in heavy if m in sys.modules]);"
+        "from model.report import workbook_bytes;"
+        "print('openpyxl' in sys.modules)"
+    )
+    run = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True)
+    assert run.returncode == 0, run.stderr
+    assert run.stdout.split() == ["[]", "True"]

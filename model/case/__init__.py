@@ -1,17 +1,18 @@
 """The case file (``*.loop.json``): the case, its schema, reading, writing, migration."""
 
-from model.case.document import DEFAULT_METHOD, DEFAULT_UNIT_SYSTEM, Case
-from model.case.file import CASE_SUFFIX, case_from_json, case_to_json, load_case, save_case
-from model.case.migrate import CURRENT_VERSION
+from model.lazy import lazy_face
 
-__all__ = [
-    "CASE_SUFFIX",
-    "CURRENT_VERSION",
-    "DEFAULT_METHOD",
-    "DEFAULT_UNIT_SYSTEM",
-    "Case",
-    "case_from_json",
-    "case_to_json",
-    "load_case",
-    "save_case",
-]
+__getattr__, __dir__, __all__ = lazy_face(
+    __name__,
+    {
+        "CASE_SUFFIX": "model.case.file",
+        "CURRENT_VERSION": "model.case.migrate",
+        "Case": "model.case.document",
+        "DEFAULT_METHOD": "model.case.document",
+        "DEFAULT_UNIT_SYSTEM": "model.case.document",
+        "case_from_json": "model.case.file",
+        "case_to_json": "model.case.file",
+        "load_case": "model.case.file",
+        "save_case": "model.case.file",
+    },
+)

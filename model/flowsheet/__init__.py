@@ -1,23 +1,22 @@
 """The flowsheet document: components, blocks, streams, block kinds, specs and events."""
 
-from model.flowsheet.document import Block, Flowsheet, Stream
-from model.flowsheet.events import Signal
-from model.flowsheet.kinds import BLOCK_KINDS, BlockKind, SpecField, block_kind
-from model.flowsheet.spec_checks import check_spec_value
-from model.flowsheet.spec_values import ComponentAmounts, Reaction, StreamEstimate, TypedQuantity
+from model.lazy import lazy_face
 
-__all__ = [
-    "BLOCK_KINDS",
-    "Block",
-    "BlockKind",
-    "ComponentAmounts",
-    "Flowsheet",
-    "Reaction",
-    "Signal",
-    "SpecField",
-    "Stream",
-    "StreamEstimate",
-    "TypedQuantity",
-    "block_kind",
-    "check_spec_value",
-]
+__getattr__, __dir__, __all__ = lazy_face(
+    __name__,
+    {
+        "BLOCK_KINDS": "model.flowsheet.kinds",
+        "Block": "model.flowsheet.document",
+        "BlockKind": "model.flowsheet.kinds",
+        "ComponentAmounts": "model.flowsheet.spec_values",
+        "Flowsheet": "model.flowsheet.document",
+        "Reaction": "model.flowsheet.spec_values",
+        "Signal": "model.flowsheet.events",
+        "SpecField": "model.flowsheet.kinds",
+        "Stream": "model.flowsheet.document",
+        "StreamEstimate": "model.flowsheet.spec_values",
+        "TypedQuantity": "model.flowsheet.spec_values",
+        "block_kind": "model.flowsheet.kinds",
+        "check_spec_value": "model.flowsheet.spec_checks",
+    },
+)

@@ -16,7 +16,7 @@ from typing import Any
 
 from model.errors import InputError
 from model.flowsheet.spec_values import ComponentAmounts, Reaction, TypedQuantity, check_fraction
-from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
+from model.properties.temperature_range import T_SEARCH_MAX, T_SEARCH_MIN
 from units_of_measure.conversion import to_internal
 from units_of_measure.errors import UnitError
 from units_of_measure.kinds import get_kind

@@ -1,21 +1,20 @@
 """Components, their constants and sources, heat capacity, enthalpy and stream state."""
 
-from model.properties.components import Component, define_component, lookup_component
-from model.properties.cp_correlations import CpCorrelation
-from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN, PropertyBasis
-from model.properties.formula import molar_mass_of, parse_formula
-from model.properties.stream_state import PHASES, StreamState
+from model.lazy import lazy_face
 
-__all__ = [
-    "PHASES",
-    "T_SEARCH_MAX",
-    "T_SEARCH_MIN",
-    "Component",
-    "CpCorrelation",
-    "PropertyBasis",
-    "StreamState",
-    "define_component",
-    "lookup_component",
-    "molar_mass_of",
-    "parse_formula",
-]
+__getattr__, __dir__, __all__ = lazy_face(
+    __name__,
+    {
+        "Component": "model.properties.components",
+        "CpCorrelation": "model.properties.cp_correlations",
+        "PHASES": "model.properties.stream_state",
+        "PropertyBasis": "model.properties.enthalpy",
+        "StreamState": "model.properties.stream_state",
+        "T_SEARCH_MAX": "model.properties.enthalpy",
+        "T_SEARCH_MIN": "model.properties.enthalpy",
+        "define_component": "model.properties.components",
+        "lookup_component": "model.properties.components",
+        "molar_mass_of": "model.properties.formula",
+        "parse_formula": "model.properties.formula",
+    },
+)

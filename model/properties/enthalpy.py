@@ -22,10 +22,9 @@ import numpy as np
 from model.errors import InputError
 from model.properties.components import Component
 from model.properties.cp_correlations import CpTable, few_components
+from model.properties.temperature_range import T_SEARCH_MAX, T_SEARCH_MIN
 
 WATSON_EXPONENT = 0.38
-T_SEARCH_MIN = 10.0  # K, bracket of temperature_from_enthalpy
-T_SEARCH_MAX = 6000.0  # K
 _T_TOLERANCE = 1e-9  # K, step size at which the temperature solve stops
 _MAX_ITERATIONS = 200
 _RECENT_SIZE = 8  # single-stream evaluations remembered (see _stream_enthalpy_and_heat_capacity)

@@ -1,34 +1,28 @@
 """Reports of a solution: the stream table, block results, closures, the case summary,
 the cautions, and the CSV and spreadsheet exports."""
 
-from model.report.block_table import ResultRow, result_rows
-from model.report.cautions import CAUTION_LINE, CAUTIONS
-from model.report.closure_table import ClosureRow, closure_rows
-from model.report.csv_file import results_csv
-from model.report.report_order import ReportOrder
-from model.report.stream_numbers import numbered_stream_order, stream_label, stream_numbers
-from model.report.summary import summary_rows
-from model.report.table import StreamTable, stream_table, stream_table_text
-from model.report.text import solution_report, solution_summary
-from model.report.xlsx import workbook_bytes
+from model.lazy import lazy_face
 
-__all__ = [
-    "CAUTIONS",
-    "CAUTION_LINE",
-    "ClosureRow",
-    "ReportOrder",
-    "ResultRow",
-    "StreamTable",
-    "closure_rows",
-    "numbered_stream_order",
-    "result_rows",
-    "results_csv",
-    "solution_report",
-    "solution_summary",
-    "stream_label",
-    "stream_numbers",
-    "stream_table",
-    "stream_table_text",
-    "summary_rows",
-    "workbook_bytes",
-]
+__getattr__, __dir__, __all__ = lazy_face(
+    __name__,
+    {
+        "CAUTIONS": "model.report.cautions",
+        "CAUTION_LINE": "model.report.cautions",
+        "ClosureRow": "model.report.closure_table",
+        "ReportOrder": "model.report.report_order",
+        "ResultRow": "model.report.block_table",
+        "StreamTable": "model.report.table",
+        "closure_rows": "model.report.closure_table",
+        "numbered_stream_order": "model.report.stream_numbers",
+        "result_rows": "model.report.block_table",
+        "results_csv": "model.report.csv_file",
+        "solution_report": "model.report.text",
+        "solution_summary": "model.report.text",
+        "stream_label": "model.report.stream_numbers",
+        "stream_numbers": "model.report.stream_numbers",
+        "stream_table": "model.report.table",
+        "stream_table_text": "model.report.table",
+        "summary_rows": "model.report.summary",
+        "workbook_bytes": "model.report.xlsx",
+    },
+)

@@ -1,22 +1,20 @@
 """The solve: topology and tears, compiling, the tear problem, the sequential-modular
 driver, the solution with its balance closures, and the second opinion."""
 
-from model.solve.balance import BalanceReport
-from model.solve.driver import solve_flowsheet
-from model.solve.second_opinion_solve import SecondOpinion, second_opinion
-from model.solve.solution import FlowsheetSolution
-from model.solve.tear_problem import TearProblem, build_tear_problem, prepare_tear_problem
-from model.solve.topology import Topology, analyse_topology
+from model.lazy import lazy_face
 
-__all__ = [
-    "BalanceReport",
-    "FlowsheetSolution",
-    "SecondOpinion",
-    "TearProblem",
-    "Topology",
-    "analyse_topology",
-    "build_tear_problem",
-    "prepare_tear_problem",
-    "second_opinion",
-    "solve_flowsheet",
-]
+__getattr__, __dir__, __all__ = lazy_face(
+    __name__,
+    {
+        "BalanceReport": "model.solve.balance",
+        "FlowsheetSolution": "model.solve.solution",
+        "SecondOpinion": "model.solve.second_opinion_solve",
+        "TearProblem": "model.solve.tear_problem",
+        "Topology": "model.solve.topology",
+        "analyse_topology": "model.solve.topology",
+        "build_tear_problem": "model.solve.tear_problem",
+        "prepare_tear_problem": "model.solve.tear_problem",
+        "second_opinion": "model.solve.second_opinion_solve",
+        "solve_flowsheet": "model.solve.driver",
+    },
+)

@@ -1,6 +1,13 @@
 """Whole-flowsheet checks before a solve: every problem at once, and the block badges."""
 
-from model.validation.issue import Issue
-from model.validation.validate import block_state, block_states, validate_flowsheet
+from model.lazy import lazy_face
 
-__all__ = ["Issue", "block_state", "block_states", "validate_flowsheet"]
+__getattr__, __dir__, __all__ = lazy_face(
+    __name__,
+    {
+        "Issue": "model.validation.issue",
+        "block_state": "model.validation.validate",
+        "block_states": "model.validation.validate",
+        "validate_flowsheet": "model.validation.validate",
+    },
+)
