@@ -47,10 +47,10 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from convergence import METHODS, IterationRecord, SolverSettings, solve_fixed_point
-from convergence.errors import ConvergenceInputError
-from model.errors import CalculationError, InputError, LoopwrightError
+from convergence import METHODS, IterationRecord, SolverSettings
+from model.errors import InputError, LoopwrightError
 from model.flowsheet.document import Flowsheet
+from model.solve.part_solve import solve_by_parts
 from model.solve.solution import FlowsheetSolution
 from model.solve.tear_problem import prepare_tear_problem
 from model.validation.issue import Issue
@@ -105,14 +105,7 @@ def solve_flowsheet(
         return _failed_before_start(flowsheet, issues, error)
     if not tear_problem.tear_streams:
         return tear_problem.final_pass([], True, None, settings.snapshot().tolerance)
-    try:
-        tear_problem.make_start(flowsheet)
-        result = solve_fixed_point(tear_problem.problem, method, settings, callback)
-    except CalculationError as error:  # a block failed in a pass while the tears iterated
-        return tear_problem.failed(error)
-    except (LoopwrightError, ConvergenceInputError) as error:  # e.g. a non-finite start
-        return tear_problem.failed(CalculationError(None, str(error)))
-    return tear_problem.finish(result, settings)
+    return solve_by_parts(flowsheet, tear_problem, method, settings, callback)
 
 
 def _failed_before_start(
