@@ -19,11 +19,11 @@ Run: ``python -m tests.benchmarks.bench_parts [--quick]``.
 from __future__ import annotations
 
 import argparse
-import time
 
 from convergence import SolverSettings, solve_fixed_point
 from model.solve.driver import solve_flowsheet
 from model.solve.tear_problem import build_tear_problem
+from tests.benchmarks.bench_enthalpy import best_time
 from tests.benchmarks.flowsheet_generator import generate_flowsheet
 from tests.benchmarks.loop_alone import loop_alone
 from tests.benchmarks.recycle_cases import CASES, build_case
@@ -55,20 +55,11 @@ def _after(sheet, loops: int) -> tuple[dict, object]:
     return figures, solution
 
 
-def _best_time(run, repeats: int) -> float:
-    best = float("inf")
-    for _ in range(repeats):
-        start = time.perf_counter()
-        run()
-        best = min(best, time.perf_counter() - start)
-    return best
-
-
 def _row(name: str, sheet, loops: int, repeats: int) -> tuple[dict, object]:
     before = _before(sheet, loops)
     after, solution = _after(sheet, loops)
-    before_s = _best_time(lambda: _before(sheet, loops), repeats)
-    after_s = _best_time(lambda: _after(sheet, loops), repeats)
+    before_s = best_time(lambda: _before(sheet, loops), repeats)
+    after_s = best_time(lambda: _after(sheet, loops), repeats)
     row = {
         "case": name,
         "blocks": len(sheet.blocks),
