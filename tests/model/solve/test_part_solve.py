@@ -188,3 +188,18 @@ def test_parts_are_saved_in_the_case_file_and_old_results_without_parts_still_lo
     assert old.parts == [] and old.block_evaluations == 0
     assert old.convergence.iterations == solution.convergence.iterations
     np.testing.assert_array_equal(old.convergence.x, solution.convergence.x)
+
+
+def test_a_part_that_reaches_the_iteration_limit_ends_the_iteration_there():
+    # Direct substitution shrinks each loop's error by its slope per pass: 0.5 (half is
+    # recycled; n-butane 0.5 x 0.8 = 0.4), so 3 iterations cannot reach 1e-8.
+    sheet = _chain(3)
+    solution = solve_flowsheet(sheet, "direct", SolverSettings(max_iterations=3))
+    assert solution.status == "not converged"
+    first, second, third = solution.parts
+    assert first.convergence.status == "not converged" and first.convergence.iterations == 3
+    assert second.convergence is None and third.convergence is None
+    assert solution.message.startswith("not converged: part 1 of 3 (tears ")
+    assert "2 part(s) downstream passed once, not converged" in solution.message
+    assert solution.convergence.iterations == 3 and len(solution.convergence.x) == 6
+    assert np.isfinite(solution.streams["product"].flows).all()
