@@ -99,9 +99,22 @@ class StatusLine(QStatusBar):
         self.state_label.setText(f" {state} ")
         self.state_label.setStyleSheet(STATE_STYLE[state] + "border-radius:3px; padding:1px 4px;")
 
-    def set_progress(self, iteration: int | None, largest_residual: float | None) -> None:
-        """Show the iteration count and the largest scaled residual (None hides them)."""
-        self.iteration_label.setText("" if iteration is None else f"iteration {iteration}")
+    def set_progress(
+        self,
+        iteration: int | None,
+        largest_residual: float | None,
+        detail: str = "",
+        work: str = "",
+    ) -> None:
+        """Show the iteration count and the largest scaled residual (None hides them).
+
+        ``detail`` follows the iteration (the part being converged); ``work`` (passes
+        and block evaluations of a finished solve) shows on hover, keeping the bar short
+        enough for the caution line.
+        """
+        text = "" if iteration is None else f"iteration {iteration}"
+        self.iteration_label.setText(f"{text} · {detail}" if text and detail else text)
+        self.iteration_label.setToolTip(work)
         self.residual_label.setText(
             ""
             if largest_residual is None

@@ -13,6 +13,7 @@ from typing import Any
 
 from gui.status_line import SOLUTION_STATES, closure_text
 from model.report.report_order import ReportOrder
+from model.report.text import work_line
 from units_of_measure import format_value
 
 EDIT_ACTIONS = ("new", "open", "copy", "paste", "delete", "rename", "components")
@@ -55,6 +56,8 @@ def opinion_summary(opinion: Any) -> tuple[str, str]:
 class WindowSolveMixin:
     """Solve, stop, second opinion and result display of :class:`gui.main_window.MainWindow`."""
 
+    _part_in_progress = ""  # label of the strongly connected part the solve converges now
+
     def is_busy(self) -> bool:
         """A solve or a second opinion is running (the flowsheet must not change)."""
         return self.solver.is_running() or self.checker.is_running()
@@ -71,6 +74,7 @@ class WindowSolveMixin:
         self.status.set_closure("")
         self.scene.set_results(self.case.solution, self.results_current, solving=True)
         self.log.clear()
+        self._part_in_progress = ""
         self.monitor.begin_run()
         self.solver.start(self.case.flowsheet, self.case.method, self.case.settings)
         self.update_solve_actions()
@@ -82,17 +86,24 @@ class WindowSolveMixin:
 
     def _solve_progress(self, record) -> None:
         residual = max(record.residuals.values()) if record.residuals else None
-        self.status.set_progress(record.iteration, residual)
+        part = getattr(record, "part", "")
+        if part.endswith(" of 1"):  # one strongly connected part: nothing to tell apart
+            part = ""
+        if part and part != self._part_in_progress:  # the solve moved on to the next part
+            self._part_in_progress = part
+            self.log.add_message("info", f"Converging {part}: tears {', '.join(record.residuals)}")
+        self.status.set_progress(record.iteration, residual, part)
         self.monitor.add_record(record)
 
     def _solve_finished(self, solution) -> None:
         self.case.solution = solution
         self._set_editing(True)
-        self.monitor.end_run(solution.convergence)
+        self.monitor.end_run(solution.convergence, solution.block_evaluations)
         self._show_results(solution, current=True)
         self.log.set_issues(solution.issues)
         severity = "info" if solution.converged else "warning"
         self.log.add_message(severity, f"Solve {solution.status}: {solution.message}")
+        self.log.add_message("info", work_line(solution))
         if solution.balance is not None:
             for line in solution.balance.lines():
                 self.log.add_message("info" if solution.balance.closes else "warning", line)
@@ -156,7 +167,9 @@ class WindowSolveMixin:
             max(records[-1].residuals.values()) if records and records[-1].residuals else None
         )
         self.status.set_progress(
-            solution.convergence.iterations if solution.convergence else solution.passes, residual
+            solution.convergence.iterations if solution.convergence else solution.passes,
+            residual,
+            work=work_line(solution),
         )
         self.status.set_closure(*closure_text(solution.balance))
 

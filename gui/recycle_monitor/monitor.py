@@ -41,6 +41,17 @@ def change_text(previous: Any, current: Any) -> str:
     )
 
 
+def part_of(record: Any) -> str:
+    """The label of the strongly connected part a record belongs to ("" if none)."""
+    return getattr(record, "part", "")
+
+
+def _part_text(record: Any) -> str:
+    """`` · part 2 of 5`` for a record of a solve with several parts, else ""."""
+    part = part_of(record)
+    return "" if not part or part.endswith(" of 1") else f" · {html.escape(part)}"
+
+
 def suggested_bounds_for(diagnoses: dict[str, TearDiagnosis]) -> tuple[float, float] | None:
     """Bounds admitting every blocked tear's suggested q (None if no tear is blocked)."""
     blocked = [d for d in diagnoses.values() if d.blocked_by_bounds]
@@ -141,8 +152,9 @@ class RecycleMonitor(QWidget):
         if not self._timer.isActive():
             self._timer.start()
 
-    def end_run(self, result: Any) -> None:
-        """Draw everything of the finished run; ``result`` is a FixedPointResult or None."""
+    def end_run(self, result: Any, block_evaluations: int = 0) -> None:
+        """Draw everything of the finished run; ``result`` is a FixedPointResult or None,
+        ``block_evaluations`` the solve's block calculations (0: not known)."""
         self._timer.stop()
         if result is None:
             self.redraw()
@@ -155,9 +167,12 @@ class RecycleMonitor(QWidget):
                 self.plots.add_marker(event.iteration, event.detail.split(": ", 1)[-1])
         self.redraw()
         diagnoses = dict(result.diagnosis) or self._live_diagnosis()
+        parts = {part_of(record) for record in result.history.records} - {""}
+        in_parts = f" in {len(parts)} parts" if len(parts) > 1 else ""
         self.status_label.setText(
             f"<b>{html.escape(result.status.capitalize())}</b> · {result.iterations} "
-            f"iterations · {result.evaluations} passes"
+            f"iterations{in_parts} · {result.evaluations} evaluations"
+            + (f" · {block_evaluations} block evaluations" if block_evaluations else "")
         )
         self._run_text = self._run_html(result)
         self._update_diagnosis(diagnoses)
@@ -199,8 +214,8 @@ class RecycleMonitor(QWidget):
         last = self._records[-1]
         self._draw_limits(self._settings.snapshot() if self._settings else last.settings)
         self.status_label.setText(
-            f"Iteration {last.iteration} · {last.evaluations} passes · largest residual "
-            f"{last.largest_residual:.3g}"
+            f"Iteration {last.iteration}{_part_text(last)} · {last.evaluations} evaluations · "
+            f"largest residual {last.largest_residual:.3g}"
         )
         self._update_diagnosis(self._live_diagnosis())
 
@@ -209,10 +224,15 @@ class RecycleMonitor(QWidget):
         self.plots.set_q_bounds(snapshot.q_min, snapshot.q_max)
 
     def _live_diagnosis(self) -> dict[str, TearDiagnosis]:
-        if not self._records:
-            return {}
-        history = ConvergenceHistory(records=list(self._records))
-        return diagnose_tears(history, self._settings)
+        """Every tear diagnosed from its own part's records (the solve converges the
+        strongly connected parts one after another; each record names its part)."""
+        by_part: dict[str, list[Any]] = {}
+        for record in self._records:
+            by_part.setdefault(part_of(record), []).append(record)
+        diagnoses: dict[str, TearDiagnosis] = {}
+        for records in by_part.values():
+            diagnoses.update(diagnose_tears(ConvergenceHistory(records=records), self._settings))
+        return diagnoses
 
     def _update_diagnosis(self, diagnoses: dict[str, TearDiagnosis] | None) -> None:
         run_html = self._run_text

@@ -11,6 +11,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from model.blocks.held import HeldTemperature
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
 from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
@@ -18,6 +19,7 @@ from model.properties.stream_state import StreamState
 
 #: Relative size below which a negative flow is rounding, silently set to zero.
 ROUNDING = 1e-12
+_BRACKET = (T_SEARCH_MIN, T_SEARCH_MAX)
 
 
 @dataclass(kw_only=True)
@@ -103,9 +105,10 @@ def temperature_for_enthalpy(
             raise CalculationError(block.name, f"{what}: {error.allowed}") from None
         # While the recycle iterates, tear values may ask the impossible for a moment
         # (e.g. more heat than a still-small flow can give): hold the bracket's end.
-        reachable = basis.stream_enthalpy_flow(flows, guess, liquid)
-        limit = T_SEARCH_MIN if target < reachable else T_SEARCH_MAX
-        warnings.append(f"{what}: no temperature gives {target:.6g} W; held at {limit:g} K")
+        # The warning keeps its figures: a loop held here is at no fixed point (held.py).
+        low, high = (basis.stream_enthalpy_flow(flows, T, liquid) for T in _BRACKET)
+        limit = T_SEARCH_MIN if target < low else T_SEARCH_MAX
+        warnings.append(HeldTemperature(what, target, (low, high), limit, _BRACKET))
         return limit
 
 

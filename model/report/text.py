@@ -33,13 +33,49 @@ def block_duty_lines(
     return [f"{name}: " + ", ".join(texts) for name, texts in parts.items()]
 
 
+def work_line(solution: Any) -> str:
+    """Passes and block evaluations, e.g. ``"Flowsheet passes: 9; block evaluations: 61"``.
+
+    With several strongly connected parts the passes are the most any part needed, and
+    the block evaluations are also given as whole-flowsheet passes.
+    """
+    line = f"Flowsheet passes: {solution.passes}"
+    evaluations = getattr(solution, "block_evaluations", 0)
+    if not evaluations:  # a solution stored before block evaluations were counted
+        return line
+    line += f"; block evaluations: {evaluations}"
+    if len(solution.parts) > 1:
+        blocks = len(solution.calculation_order)
+        line = (
+            f"Flowsheet passes: {solution.passes} (the most of any of its "
+            f"{len(solution.parts)} parts); block evaluations: {evaluations}, as many as "
+            f"{evaluations / max(blocks, 1):.3g} passes over all {blocks} blocks"
+        )
+    return line
+
+
+def _part_lines(solution: Any) -> list[str]:
+    """One line per strongly connected part: its tears, iterations and cost."""
+    lines = []
+    for part in solution.parts:
+        result = part.convergence
+        how = "passed once (not iterated)" if result is None else result.status
+        iterations = "" if result is None else f", {result.iterations} iterations"
+        lines.append(
+            f"{part.label.capitalize()}: tears {', '.join(part.tear_streams)}; {how}"
+            f"{iterations}, {part.passes} passes, {part.block_evaluations} block evaluations "
+            f"({len(part.blocks)} blocks)"
+        )
+    return lines
+
+
 def convergence_lines(solution: Any) -> list[str]:
-    """Per tear: iterations, final residual and the diagnosis advice; or why there is none."""
+    """Per tear: iterations, final residual and the diagnosis advice; or why there is none.
+
+    With several strongly connected parts, a line per part comes first.
+    """
     result = solution.convergence
-    lines = [
-        f"Status: {solution.message}".rstrip(),
-        f"Flowsheet passes: {solution.passes}",
-    ]
+    lines = [f"Status: {solution.message}".rstrip(), work_line(solution)]
     if result is None:
         lines.append("No recycle: the flowsheet was solved in one pass.")
         return lines
@@ -47,6 +83,8 @@ def convergence_lines(solution: Any) -> list[str]:
         f"Method: {result.method}; iterations: {result.iterations}; "
         f"evaluations: {result.evaluations}"
     )
+    if len(solution.parts) > 1:
+        lines += _part_lines(solution)
     for tear in solution.tear_streams:
         residuals = result.history.residuals(tear)
         final = format_value(residuals[-1]) if residuals.size else "n/a"
@@ -94,8 +132,10 @@ def solution_report(
 def solution_summary(solution: Any) -> dict[str, Any]:
     """The solution as one JSON-able object in internal units (``loopwright solve --json``).
 
-    Keys: ``status``, ``converged``, ``message``, ``iterations``, ``passes``, ``tears``
-    (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
+    Keys: ``status``, ``converged``, ``message``, ``iterations``, ``passes``,
+    ``block_evaluations``, ``parts`` (per strongly connected part: ``label``, ``blocks``,
+    ``tear_streams``, ``status``, ``iterations``, ``passes``, ``block_evaluations``),
+    ``tears`` (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
     ``T_K``, ``P_Pa``, ``phase``, ``enthalpy_flow_W``), ``blocks`` (name -> ``duty_W``
     where the block has one), ``closure`` (relative closures ``mass``, ``elements``,
     ``energy``) and ``cautions``.
@@ -119,6 +159,19 @@ def solution_summary(solution: Any) -> dict[str, Any]:
         "message": solution.message,
         "iterations": 0 if result is None else int(result.iterations),
         "passes": int(solution.passes),
+        "block_evaluations": int(solution.block_evaluations),
+        "parts": [
+            {
+                "label": part.label,
+                "blocks": list(part.blocks),
+                "tear_streams": list(part.tear_streams),
+                "status": "not iterated" if part.convergence is None else part.convergence.status,
+                "iterations": 0 if part.convergence is None else int(part.convergence.iterations),
+                "passes": int(part.passes),
+                "block_evaluations": int(part.block_evaluations),
+            }
+            for part in solution.parts
+        ],
         "tears": {
             tear: [float(r) for r in result.history.residuals(tear)]
             for tear in solution.tear_streams

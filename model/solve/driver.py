@@ -6,16 +6,24 @@ Steps of :func:`solve_flowsheet`:
 2. Compile the specs once to internal floats (:mod:`model.solve.compile`).
 3. Find the tear streams and the calculation order (:func:`model.solve.topology.analyse_topology`;
    preferred tears honoured, weights = tear variables per stream).
-4. Without tears: one pass, done. With tears, the tear vector is, for each tear stream
-   in turn, its component flows (mol/s), T (K) and P (Pa); g(x) is one pass that starts
-   from the tear values x and returns the tear streams as recomputed by their source
-   blocks. Start: the user's estimate of a tear where given; otherwise one pass with
+4. Without tears: one pass, done. With tears, the flowsheet is solved part by part
+   (:mod:`model.solve.part_solve`): blocks outside loops once, when their inlets are
+   known; each strongly connected part on its own, in the order of the block graph's
+   condensation, as below, with passes over that part's blocks only.
+5. A part's tear vector is, for each of its tear streams in turn, its component flows
+   (mol/s), T (K) and P (Pa); g(x) is one pass of the part that starts from the tear
+   values x and returns the tear streams as recomputed by their source blocks. Start:
+   the user's estimate of a tear where given (by stream name); otherwise one pass with
    the tears at zero flow at the feeds' mean T and P, whose recomputed tears are x0.
-5. x = g(x) is solved by :func:`convergence.solve_fixed_point` with the live settings.
-   Absolute floors of the scaled residual: flows ``1e-9 x total feed flow + 1e-12``
-   mol/s (a trace component's flow need not converge relative to itself), T 1 K, P 1 Pa.
-6. A final, strict pass at the converged x fills every stream; a tear stream is
-   reported as its source block computed it. Balances are reported.
+6. x = g(x) is solved by :func:`convergence.solve_fixed_point` with the live settings
+   (one object for every part). Absolute floors of the scaled residual: flows
+   ``1e-9 x total feed flow + 1e-12`` mol/s (a trace component's flow need not converge
+   relative to itself), T 1 K, P 1 Pa. A fixed point reached while a block's
+   temperature search was held at its limit is rejected (:mod:`model.solve.held_check`).
+7. A final, strict pass of the part at the converged x fills its streams; a tear
+   stream is reported as its source block computed it. Once every part is done, the
+   balances are reported. A part that does not converge ends the iteration: the parts
+   after it are passed once, and the solution reports that part's status.
 
 While the tears iterate, a pass is lenient: a tear flow that a Wegstein step took
 below zero is clipped to zero, and a reaction short of a reactant is limited with a
@@ -47,10 +55,10 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from convergence import METHODS, IterationRecord, SolverSettings, solve_fixed_point
-from convergence.errors import ConvergenceInputError
-from model.errors import CalculationError, InputError, LoopwrightError
+from convergence import METHODS, IterationRecord, SolverSettings
+from model.errors import InputError, LoopwrightError
 from model.flowsheet.document import Flowsheet
+from model.solve.part_solve import solve_by_parts
 from model.solve.solution import FlowsheetSolution
 from model.solve.tear_problem import prepare_tear_problem
 from model.validation.issue import Issue
@@ -105,14 +113,7 @@ def solve_flowsheet(
         return _failed_before_start(flowsheet, issues, error)
     if not tear_problem.tear_streams:
         return tear_problem.final_pass([], True, None, settings.snapshot().tolerance)
-    try:
-        tear_problem.make_start(flowsheet)
-        result = solve_fixed_point(tear_problem.problem, method, settings, callback)
-    except CalculationError as error:  # a block failed in a pass while the tears iterated
-        return tear_problem.failed(error)
-    except (LoopwrightError, ConvergenceInputError) as error:  # e.g. a non-finite start
-        return tear_problem.failed(CalculationError(None, str(error)))
-    return tear_problem.finish(result, settings)
+    return solve_by_parts(flowsheet, tear_problem, method, settings, callback)
 
 
 def _failed_before_start(

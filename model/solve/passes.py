@@ -11,6 +11,7 @@ from __future__ import annotations
 import numpy as np
 
 from model.blocks import COMPUTERS
+from model.blocks.held import HeldTemperature
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, LoopwrightError
 from model.properties.stream_state import StreamState
@@ -38,10 +39,21 @@ class FlowsheetPass:
     ``run(tear_states)`` starts from the given states of the tear streams, computes every
     block once, and leaves every stream state in ``states``, the tear streams as their
     source blocks recomputed them in ``recomputed`` and block results in ``results``.
+
+    ``order`` may be some of the blocks only (one strongly connected part): with
+    ``shared``, the pass reads and writes that other pass's ``states`` and ``results``,
+    so the part sees the streams upstream steps left there. ``count`` counts passes,
+    ``block_evaluations`` block calculations, and ``held`` lists, for the last pass,
+    every block whose temperature search was held at its limit (with the warning).
     """
 
     def __init__(
-        self, compiled: CompiledFlowsheet, order: list[str], tear_streams: list[str], basis
+        self,
+        compiled: CompiledFlowsheet,
+        order: list[str],
+        tear_streams: list[str],
+        basis,
+        shared: FlowsheetPass | None = None,
     ) -> None:
         self.basis = basis
         self.tear_indices = [compiled.stream_index[name] for name in tear_streams]
@@ -54,14 +66,21 @@ class FlowsheetPass:
                 for port, index in zip(block.outlet_ports, block.outlet_streams, strict=True)
             )
             self.steps.append((block, COMPUTERS[block.kind], block.inlet_streams, outlets))
-        self.states: list[StreamState | None] = [None] * len(compiled.stream_names)
+        if shared is None:
+            self.states: list[StreamState | None] = [None] * len(compiled.stream_names)
+            self.results: dict[str, BlockResult] = {}
+        else:
+            self.states, self.results = shared.states, shared.results
         self.recomputed: list[StreamState | None] = [None] * len(tear_streams)
-        self.results: dict[str, BlockResult] = {}
         self.count = 0
+        self.block_evaluations = 0
+        self.held: list[tuple[str, HeldTemperature]] = []
 
     def run(self, tear_states: list[StreamState], strict: bool) -> None:
         """Compute every block once from ``tear_states`` (in tear order)."""
         self.count += 1
+        self.block_evaluations += len(self.steps)
+        self.held = []
         states = self.states
         for index, state in zip(self.tear_indices, tear_states, strict=True):
             states[index] = state
@@ -83,6 +102,12 @@ class FlowsheetPass:
                 else:
                     recomputed[tear] = output.outlets[port]
             results[block.name] = output.result
+            if output.result.warnings:
+                self.held += [
+                    (block.name, w)
+                    for w in output.result.warnings
+                    if isinstance(w, HeldTemperature)
+                ]
 
 
 class TearVector:

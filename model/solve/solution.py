@@ -7,16 +7,16 @@ JSON-able form the case file stores and :meth:`FlowsheetSolution.from_dict` rebu
 
 from __future__ import annotations
 
-import dataclasses
-import math
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from convergence import ConvergenceHistory, FixedPointResult, TearDiagnosis
+from convergence import FixedPointResult
 from model.blocks.result import BlockResult
 from model.properties.stream_state import StreamState
+from model.solve.convergence_data import convergence_from_dict, convergence_to_dict
+from model.solve.part_results import PartSolution, label_records, parts_from_dict
 from model.validation.issue import Issue
 
 if TYPE_CHECKING:
@@ -45,84 +45,6 @@ def _stream_from_dict(data: dict[str, Any]) -> StreamState:
     )
 
 
-def _plain(value: Any) -> Any:
-    """A JSON-safe copy: tuples to lists, non-finite floats to None."""
-    if isinstance(value, float):
-        return value if math.isfinite(value) else None
-    if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
-    if isinstance(value, dict):
-        return {k: _plain(v) for k, v in value.items()}
-    return value
-
-
-def _number(value: Any) -> float:
-    return math.nan if value is None else float(value)
-
-
-def _numbers(values: Any) -> np.ndarray:
-    """A float array from a stored list; None (a non-finite value) comes back as NaN."""
-    if not isinstance(values, list):
-        raise TypeError(f"a list of numbers is needed, not {type(values).__name__}")
-    return np.array([_number(v) for v in values], dtype=float)
-
-
-def convergence_to_dict(result: FixedPointResult) -> dict[str, Any]:
-    """The convergence result as its history dict plus the summary fields.
-
-    Non-finite numbers (e.g. ``gx`` of a "not finite" run) are stored as None (JSON
-    null), so the case file stays strict JSON. ``largest_estimated_error`` is stored
-    when the result has it.
-    """
-    data = {
-        "converged": result.converged,
-        "status": result.status,
-        "message": result.message,
-        "method": result.method,
-        "iterations": result.iterations,
-        "evaluations": result.evaluations,
-        "largest_residual": _plain(float(result.largest_residual)),
-        "x": _plain(result.x.tolist()),
-        "gx": _plain(result.gx.tolist()),
-        "history": result.history.to_dict(),
-        "diagnosis": {tear: _plain(dataclasses.asdict(d)) for tear, d in result.diagnosis.items()},
-    }
-    estimated_error = getattr(result, "largest_estimated_error", None)
-    if estimated_error is not None:
-        data["largest_estimated_error"] = _plain(float(estimated_error))
-    return data
-
-
-def _diagnosis_from_dict(data: dict[str, Any]) -> TearDiagnosis:
-    """A tear diagnosis; float fields stored as None (non-finite) come back as NaN."""
-    known = {f.name: f.type for f in dataclasses.fields(TearDiagnosis)}
-    values = {name: value for name, value in data.items() if name in known}
-    for name, kind in known.items():
-        if name in values and kind in ("float", float):
-            values[name] = _number(values[name])
-    values["suggested_bounds"] = tuple(_number(v) for v in values["suggested_bounds"])
-    return TearDiagnosis(**values)
-
-
-def convergence_from_dict(data: dict[str, Any]) -> FixedPointResult:
-    """Inverse of :func:`convergence_to_dict` (files without ``largest_estimated_error``
-    load with it NaN)."""
-    return FixedPointResult(
-        converged=bool(data["converged"]),
-        status=str(data["status"]),
-        message=str(data["message"]),
-        x=_numbers(data["x"]),
-        gx=_numbers(data["gx"]),
-        iterations=int(data["iterations"]),
-        evaluations=int(data["evaluations"]),
-        history=ConvergenceHistory.from_dict(data["history"]),
-        diagnosis={t: _diagnosis_from_dict(d) for t, d in data.get("diagnosis", {}).items()},
-        method=str(data.get("method", "wegstein")),
-        largest_residual=_number(data.get("largest_residual")),
-        largest_estimated_error=_number(data.get("largest_estimated_error")),
-    )
-
-
 @dataclass
 class FlowsheetSolution:
     """Result of :func:`model.solve.driver.solve_flowsheet`.
@@ -130,7 +52,16 @@ class FlowsheetSolution:
     ``status`` is one of :data:`SOLUTION_STATUSES`; ``converged`` is True only for
     "solved". ``streams`` and ``blocks`` are empty for "needs input" and may be
     partial for "failed". ``convergence`` is None for a flowsheet without recycle
-    (solved in one pass). ``passes`` counts flowsheet passes, the final one included.
+    (solved in one pass).
+
+    The loops are converged one strongly connected part at a time: ``parts`` holds each
+    part's blocks, tears, own result, passes and block evaluations, in solve order, and
+    ``convergence`` is their combined result (:func:`model.solve.part_results.combine_parts`).
+    ``passes`` is the most passes any part needed (start, iterations and final pass over
+    that part's blocks; 1 without recycle), since the parts' passes cover different
+    blocks; ``block_evaluations`` counts every block calculation of the solve, the
+    measure of its whole cost. Solutions stored before parts existed load with no
+    ``parts`` and with ``block_evaluations`` 0 (not recorded).
     """
 
     status: str
@@ -146,6 +77,8 @@ class FlowsheetSolution:
     passes: int = 0
     balance: BalanceReport | None = None
     issues: list[Issue] = field(default_factory=list)
+    parts: list[PartSolution] = field(default_factory=list)
+    block_evaluations: int = 0
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-able form for the case file (the basis is not stored)."""
@@ -161,7 +94,9 @@ class FlowsheetSolution:
             "convergence": None
             if self.convergence is None
             else convergence_to_dict(self.convergence),
+            "parts": [part.to_dict() for part in self.parts],
             "passes": self.passes,
+            "block_evaluations": self.block_evaluations,
             "balance": None if self.balance is None else self.balance.to_dict(),
             "issues": [issue.to_dict() for issue in self.issues],
         }
@@ -179,6 +114,11 @@ class FlowsheetSolution:
             basis = PropertyBasis(source.components) if source.components else None
         convergence = data.get("convergence")
         balance = data.get("balance")
+        tear_streams = [str(n) for n in data.get("tear_streams", [])]
+        combined = None if convergence is None else convergence_from_dict(convergence)
+        parts = parts_from_dict(data.get("parts", []), combined, tear_streams)
+        if parts and combined is not None:
+            combined = label_records(combined, parts)
         return cls(
             status=str(data["status"]),
             converged=bool(data["converged"]),
@@ -187,10 +127,12 @@ class FlowsheetSolution:
             component_names=[str(n) for n in data.get("component_names", [])],
             streams={n: _stream_from_dict(s) for n, s in data.get("streams", {}).items()},
             blocks={n: BlockResult.from_dict(r) for n, r in data.get("blocks", {}).items()},
-            tear_streams=[str(n) for n in data.get("tear_streams", [])],
+            tear_streams=tear_streams,
             calculation_order=[str(n) for n in data.get("calculation_order", [])],
-            convergence=None if convergence is None else convergence_from_dict(convergence),
+            convergence=combined,
             passes=int(data.get("passes", 0)),
             balance=None if balance is None else BalanceReport.from_dict(balance),
             issues=[Issue.from_dict(i) for i in data.get("issues", [])],
+            parts=parts,
+            block_evaluations=int(data.get("block_evaluations", 0)),
         )

@@ -54,7 +54,7 @@ from model.validation.flowsheet_checks import PortMap, stream_phases
 from model.validation.issue import Issue
 from model.validation.validate import validate_flowsheet
 
-__all__ = ["TearProblem", "build_tear_problem"]
+__all__ = ["TearProblem", "build_tear_problem", "fill_solution", "prepare_tear_problem"]
 
 _STATUS = {"converged": "solved", "stopped": "stopped"}
 
@@ -72,6 +72,9 @@ class TearProblem:
         As the solve chooses them.
     runner
         The pass behind g; ``runner.count`` counts every pass made (the start pass too).
+    feeds, phase_guesses
+        The feeds' states; every stream's phase as the specs tell it (else the feeds'
+        most common phase), the tears' phases until a pass computes them.
     """
 
     problem: FixedPointProblem | None
@@ -83,6 +86,7 @@ class TearProblem:
     basis: PropertyBasis
     issues: list[Issue]
     feeds: list[StreamState] = field(default_factory=list)
+    phase_guesses: dict[str, str] = field(default_factory=dict)
 
     @property
     def passes(self) -> int:
@@ -138,8 +142,33 @@ class TearProblem:
             return solution
         solution = self.new_solution()
         solution.convergence = result
-        _fill(solution, self.runner, self.compiled, self.tears, tolerance)
+        solution.passes = self.runner.count
+        solution.block_evaluations = self.runner.block_evaluations
+        fill_solution(solution, [(self.runner, self.tears)], self.compiled, tolerance)
         return solution
+
+    def for_part(self, flowsheet: Flowsheet, blocks: list[str], tear_streams: list[str]):
+        """The tear problem of one strongly connected part of this flowsheet.
+
+        Its pass computes ``blocks`` only (in the order given), reading and writing this
+        problem's stream states, so it sees what the steps before it computed there.
+        ``problem`` is None until :meth:`make_start`.
+        """
+        runner = FlowsheetPass(self.compiled, blocks, tear_streams, self.basis, shared=self.runner)
+        tears = TearVector(tear_streams, list(self.basis.names))
+        tears.phases = [self.phase_guesses[name] for name in tear_streams]
+        return TearProblem(
+            None,
+            list(tear_streams),
+            list(blocks),
+            runner,
+            tears,
+            self.compiled,
+            self.basis,
+            self.issues,
+            self.feeds,
+            self.phase_guesses,
+        )
 
     def make_start(self, flowsheet: Flowsheet) -> None:
         """Build :attr:`problem`: the start x0 and the pass function g.
@@ -215,12 +244,12 @@ def _starting_states(
     return states, estimated
 
 
-def _initial_phases(flowsheet: Flowsheet, tears: TearVector, feeds: list[StreamState]) -> None:
-    """Tear phases known from the specs; otherwise the feeds' most common phase."""
+def _phase_guesses(flowsheet: Flowsheet, feeds: list[StreamState]) -> dict[str, str]:
+    """Every stream's phase as known from the specs; otherwise the feeds' most common."""
     known = stream_phases(flowsheet, PortMap(flowsheet))
     feed_phases = [s.phase for s in feeds] or ["vapor"]
     default = max(set(feed_phases), key=feed_phases.count)
-    tears.phases = [known.get(name, default) for name in tears.tear_streams]
+    return {name: known.get(name, default) for name in flowsheet.streams}
 
 
 def prepare_tear_problem(flowsheet: Flowsheet, issues: list[Issue]) -> TearProblem:
@@ -247,7 +276,8 @@ def prepare_tear_problem(flowsheet: Flowsheet, issues: list[Issue]) -> TearProbl
     feeds = [
         compiled.blocks[b].state for b in flowsheet.blocks if compiled.blocks[b].kind == "Feed"
     ]
-    _initial_phases(flowsheet, tears, feeds)
+    phase_guesses = _phase_guesses(flowsheet, feeds)
+    tears.phases = [phase_guesses[name] for name in tears.tear_streams]
     return TearProblem(
         None,
         list(topology.tear_streams),
@@ -258,6 +288,7 @@ def prepare_tear_problem(flowsheet: Flowsheet, issues: list[Issue]) -> TearProbl
         basis,
         issues,
         feeds,
+        phase_guesses,
     )
 
 
@@ -287,34 +318,31 @@ def build_tear_problem(flowsheet: Flowsheet) -> TearProblem:
     return tear_problem
 
 
-def _fill(
+def fill_solution(
     solution: FlowsheetSolution,
-    runner: FlowsheetPass,
+    runs: list[tuple[FlowsheetPass, TearVector]],
     compiled: CompiledFlowsheet,
-    tears: TearVector,
     tolerance: float,
 ) -> None:
-    """Streams, block results, warnings, status and balance from the final pass."""
-    states = list(runner.states)
-    for index, state in zip(runner.tear_indices, runner.recomputed, strict=True):
-        states[index] = state
+    """Streams, block results, warnings, status and balance once the final passes are made.
+
+    ``runs`` are the passes that computed the flowsheet (one, or one per part, all
+    sharing the first one's stream states and block results) with their tear vectors;
+    a tear stream is reported as its source block recomputed it. ``solution.passes`` and
+    ``solution.convergence`` must be set.
+    """
+    states = list(runs[0][0].states)
+    for runner, _ in runs:
+        for index, state in zip(runner.tear_indices, runner.recomputed, strict=True):
+            states[index] = state
     solution.streams = {name: states[i].copy() for i, name in enumerate(compiled.stream_names)}
-    solution.blocks = dict(runner.results)
-    solution.passes = runner.count
+    solution.blocks = dict(runs[0][0].results)
     for name, result in solution.blocks.items():
         for warning in result.warnings:
             solution.issues.append(Issue("warning", f"{name}: {warning}", block=name))
     solution.issues += _property_warnings(solution)
-    for tear, count in zip(tears.tear_streams, tears.clipped, strict=True):
-        if count:
-            solution.issues.append(
-                Issue(
-                    "warning",
-                    f"{tear}: in {count} pass(es) an accelerated step took tear flows "
-                    "below zero; they were clipped to zero for that pass",
-                    stream=tear,
-                )
-            )
+    for _, tears in runs:
+        solution.issues += _clipping_warnings(tears)
     result = solution.convergence
     if result is None:
         solution.status, solution.converged = "solved", True
@@ -322,7 +350,10 @@ def _fill(
     else:
         solution.status = _STATUS.get(result.status, "not converged")
         solution.converged = result.converged
-        solution.message = f"{solution.status}: {result.message}; {runner.count} passes"
+        work = f"{solution.passes} passes"
+        if len(solution.parts) > 1:
+            work += f" at most per part, {solution.block_evaluations} block evaluations"
+        solution.message = f"{solution.status}: {result.message}; {work}"
     # An exchanger's duty passes heat inside the flowsheet (hot to cold side); the other
     # duties cross its boundary.
     duties = [
@@ -346,6 +377,19 @@ def _fill(
         solution.issues.append(Issue("error", unusable))
     elif not solution.balance.closes:
         solution.issues.append(Issue("warning", "balance: " + solution.balance.lines()[-1]))
+
+
+def _clipping_warnings(tears: TearVector) -> list[Issue]:
+    return [
+        Issue(
+            "warning",
+            f"{tear}: in {count} pass(es) an accelerated step took tear flows "
+            "below zero; they were clipped to zero for that pass",
+            stream=tear,
+        )
+        for tear, count in zip(tears.tear_streams, tears.clipped, strict=True)
+        if count
+    ]
 
 
 def _unusable(solution: FlowsheetSolution) -> str | None:

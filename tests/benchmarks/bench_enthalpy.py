@@ -42,7 +42,7 @@ COMPONENTS = (
 )
 
 
-def _best_time(function, repeats: int) -> float:
+def best_time(function, repeats: int) -> float:
     """Shortest wall time of several runs, s (least disturbed by other load)."""
     best = float("inf")
     for _ in range(repeats):
@@ -89,9 +89,9 @@ def main(quick: bool = False) -> dict:
     # J/mol of rounding (as in tests/model/properties/test_enthalpy.py's single-vs-vectorised check)
     np.testing.assert_allclose(per_stream_loop(), reference, rtol=1e-12, atol=1e-6)
     np.testing.assert_allclose(per_stream_scalar_path(), reference, rtol=1e-12, atol=1e-6)
-    t_vector = _best_time(vectorised, repeats)
-    t_loop = _best_time(per_stream_loop, repeats)
-    t_scalar = _best_time(per_stream_scalar_path, repeats)
+    t_vector = best_time(vectorised, repeats)
+    t_loop = best_time(per_stream_loop, repeats)
+    t_scalar = best_time(per_stream_scalar_path, repeats)
 
     n_solves = 50 if quick else 300
     targets = basis.enthalpy_flow(flows[:n_solves], T[:n_solves], liquid[:n_solves])
@@ -100,7 +100,7 @@ def main(quick: bool = False) -> dict:
         for i in range(n_solves):
             basis.temperature_from_enthalpy(flows[i], targets[i], bool(liquid[i]), 298.15)
 
-    t_solves = _best_time(solves, max(1, repeats // 2))
+    t_solves = best_time(solves, max(1, repeats // 2))
     results = {
         "streams": n_streams,
         "components": len(basis),

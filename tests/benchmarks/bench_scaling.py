@@ -12,9 +12,9 @@ quick: 10 / 100 blocks x 5 / 20 components) it measures
 
 and fits the growth exponents t ~ blocks^b x components^c (least squares on the logs),
 for the pass and for the solve. A pass linear in blocks gives b = 1; a per-block cost
-that hardly depends on the component count gives c well below 1. The solve grows
-faster than the pass when larger flowsheets need more passes (loops in series converge
-together).
+that hardly depends on the component count gives c well below 1. The solve converges
+the loops in series part by part, so its passes are those of the slowest loop and its
+block evaluations grow like the blocks.
 
 Run: ``python -m tests.benchmarks.bench_scaling [--quick]``.
 """
@@ -61,6 +61,7 @@ def _measure_solve(blocks: int, components: int, repeats: int) -> dict:
         "loops": loops,
         "solve_s": best,
         "passes": solution.passes,
+        "block_evaluations": solution.block_evaluations,
         "run": runner.run,
         "tears": [solution.streams[name] for name in topology.tear_streams],
         "pass_s": np.inf,
@@ -100,13 +101,15 @@ def fit_exponents(rows: list[dict], key: str) -> dict[str, float]:
 def markdown_table(rows: list[dict]) -> str:
     """The grid as a markdown table."""
     lines = [
-        "| blocks | loops | components | pass (ms) | solve (s) | passes per solve |",
-        "|---:|---:|---:|---:|---:|---:|",
+        "| blocks | loops | components | pass (ms) | solve (s) | passes per solve "
+        "| block evaluations |",
+        "|---:|---:|---:|---:|---:|---:|---:|",
     ]
     for row in rows:
         lines.append(
             f"| {row['blocks']} | {row['loops']} | {row['components']} | "
-            f"{row['pass_s'] * 1e3:.3g} | {row['solve_s']:.3g} | {row['passes']} |"
+            f"{row['pass_s'] * 1e3:.3g} | {row['solve_s']:.3g} | {row['passes']} | "
+            f"{row['block_evaluations']} |"
         )
     return "\n".join(lines)
 

@@ -15,9 +15,12 @@ from convergence import (  # noqa: E402
     IterationRecord,
     QStats,
     SolverSettings,
+    diagnose_tears,
     solve_fixed_point,
 )
 from gui.recycle_monitor import RecycleMonitor  # noqa: E402
+from model.solve.driver import solve_flowsheet  # noqa: E402
+from tests.benchmarks.flowsheet_generator import generate_flowsheet  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
@@ -154,3 +157,21 @@ def test_show_history_of_a_stored_run(qtbot, monitor):
     assert result.message in monitor.diagnosis_view.toPlainText()
     monitor.show_history(None)
     assert monitor.plots.series == {}
+
+
+def test_live_diagnosis_of_a_part_by_part_solve_takes_each_tear_from_its_own_part(qtbot, monitor):
+    settings = SolverSettings()
+    monitor.bind_settings(settings)
+    monitor.begin_run()
+    solution = solve_flowsheet(
+        generate_flowsheet(17, 3, 4), settings=settings, callback=monitor.add_record
+    )
+    assert solution.status == "solved"
+    monitor.redraw()  # the live view, before the run's end is shown
+    live = monitor._live_diagnosis()
+    for part in solution.parts:
+        own = diagnose_tears(part.convergence.history, settings)
+        for tear in part.tear_streams:
+            assert live[tear].slope == own[tear].slope and live[tear].advice == own[tear].advice
+    monitor.end_run(solution.convergence, solution.block_evaluations)
+    assert set(monitor.plots.series) == set(solution.tear_streams)

@@ -10,8 +10,10 @@ from PySide6.QtWidgets import QAbstractItemView, QLineEdit
 
 from convergence import METHODS
 from gui.stream_table import INTERNAL_ROLE, VALUE_ROLE
-from model.case.file import case_from_dict, case_to_dict
+from model.case.document import Case
+from model.case.file import case_from_dict, case_to_dict, save_case
 from model.report.cautions import CAUTION_LINE, CAUTIONS
+from tests.benchmarks.flowsheet_generator import generate_flowsheet
 from units_of_measure import UNIT_SYSTEMS, from_internal
 
 pytestmark = pytest.mark.gui
@@ -297,3 +299,29 @@ def test_a_run_whose_balances_do_not_close_is_shown_as_failed(qtbot, window, exa
     assert window.status.state() == "not converged"
     texts = [message for _severity, _where, message in window.log.entries()]
     assert any("balances do not close" in text for text in texts)
+
+
+def test_loops_in_series_are_shown_part_by_part(qtbot, window, tmp_path):
+    path = tmp_path / "three loops.loop.json"
+    save_case(Case(flowsheet=generate_flowsheet(17, 3, 4)), path)
+    assert window.files.open_path(str(path))
+    press_f5_and_wait(qtbot, window)
+    solution = window.case.solution
+    assert solution.status == "solved" and len(solution.parts) == 3
+    messages = [message for _, _, message in window.log.entries()]
+    for part in solution.parts:
+        tears = ", ".join(part.tear_streams)
+        assert any(f"Converging {part.label}: tears {tears}" in m for m in messages)
+    assert any(f"block evaluations: {solution.block_evaluations}" in m for m in messages)
+    assert f"block evaluations: {solution.block_evaluations}" in (
+        window.status.iteration_label.toolTip()
+    )
+    monitor = window.monitor
+    assert set(monitor.plots.series) == set(solution.tear_streams)  # every tear plotted
+    for tear in solution.tear_streams:
+        assert len(monitor.plots.series[tear].residuals) == len(
+            solution.convergence.history.residuals(tear)
+        )
+        assert tear in monitor.diagnosis_view.toPlainText()
+    assert "in 3 parts" in monitor.status_label.text()
+    assert f"{solution.block_evaluations} block evaluations" in monitor.status_label.text()

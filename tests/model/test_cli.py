@@ -56,6 +56,16 @@ def test_solve_json_holds_the_agreed_keys_and_the_solved_numbers(capsys) -> None
     summary = json.loads(out)
     assert summary["converged"] is True and summary["iterations"] == 6
     assert summary["passes"] >= summary["iterations"]
+    # One loop part of 5 blocks (mixer to splitter), passed start + 6 iterations + final;
+    # the feed and the two products are computed once.
+    (part,) = summary["parts"]
+    assert (part["label"], part["tear_streams"], part["status"]) == (
+        "part 1 of 1",
+        ["Recycle gas"],
+        "converged",
+    )
+    assert part["passes"] == summary["passes"] == 8 and part["block_evaluations"] == 5 * 8
+    assert summary["block_evaluations"] == 5 * 8 + 3
     assert list(summary["tears"]) == ["Recycle gas"]
     assert len(summary["tears"]["Recycle gas"]) == summary["iterations"]
     assert summary["tears"]["Recycle gas"][-1] <= 1e-8
