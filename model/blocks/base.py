@@ -48,8 +48,32 @@ class BlockOutput:
 
 
 def enthalpy(basis, state: StreamState) -> float:
-    """Enthalpy flow of one stream, W (formation basis)."""
+    """Enthalpy flow of one stream, W (formation basis): the one its producing block
+    carried on it, else computed."""
+    if state.enthalpy is not None:
+        return state.enthalpy
     return basis.stream_enthalpy_flow(state.flows, state.T, state.phase == "liquid")
+
+
+class SetTemperatureEnthalpy:
+    """Enthalpy flows at a block's set outlet temperature: each component's molar
+    enthalpy there is computed once per solve (per phase asked), so a pass needs one
+    dot product instead of the heat-capacity correlations."""
+
+    def __init__(self, basis, T: float) -> None:
+        self.basis = basis
+        self.T = float(T)
+        self._molar: dict[bool, tuple[np.ndarray, np.ndarray]] = {}
+
+    def flow(self, flows: np.ndarray, liquid: bool) -> float:
+        """Enthalpy flow (W) of ``flows`` at the set temperature in the given phase; the
+        basis is told it (with the heat-capacity flow) for the next block's first look."""
+        molar = self._molar.get(liquid)
+        if molar is None:
+            molar = self._molar[liquid] = self.basis.at_temperature(self.T, liquid)
+        enthalpy = float(flows @ molar[0])
+        self.basis.remember_stream(flows, self.T, liquid, enthalpy, float(flows @ molar[1]))
+        return enthalpy
 
 
 def enthalpies(basis, states: list[StreamState]) -> np.ndarray:
@@ -124,22 +148,29 @@ def energy_outlet(
     inlet_T: float,
     strict: bool,
     warnings: list[str],
-) -> tuple[float, float]:
-    """Outlet temperature and duty for the modes "outlet temperature", "adiabatic", "duty".
+    at_set_temperature: SetTemperatureEnthalpy | None = None,
+) -> tuple[float, float, float | None]:
+    """Outlet temperature, duty and outlet enthalpy for the modes "outlet temperature",
+    "adiabatic" and "duty".
 
     The duty is the heat added, ``H_out - H_in`` (W); ``enthalpy_in`` is the inlet's.
+    The outlet enthalpy (W) is None when the temperature search was held at its limit
+    (the outlet then does not carry the enthalpy asked for).
     """
     liquid = phase == "liquid"
     if mode == "outlet temperature":
-        out = basis.stream_enthalpy_flow(flows, set_temperature, liquid)
-        return float(set_temperature), out - enthalpy_in
+        if at_set_temperature is not None:
+            out = at_set_temperature.flow(flows, liquid)
+        else:
+            out = basis.stream_enthalpy_flow(flows, set_temperature, liquid)
+        return float(set_temperature), out - enthalpy_in, out
     duty = 0.0 if mode == "adiabatic" else float(set_duty)
-    T = temperature_for_enthalpy(
-        block, basis, flows, enthalpy_in + duty, liquid, inlet_T, strict, warnings
-    )
+    warned = len(warnings)
+    target = enthalpy_in + duty
+    T = temperature_for_enthalpy(block, basis, flows, target, liquid, inlet_T, strict, warnings)
     if flows.sum() <= 0.0:
-        duty = 0.0
-    return T, duty
+        duty, target = 0.0, 0.0
+    return T, duty, (target if len(warnings) == warned else None)
 
 
 def clip_rounding(flows: np.ndarray, scale: float) -> np.ndarray:

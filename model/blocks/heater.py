@@ -8,6 +8,7 @@ from typing import Any
 from model.blocks.base import (
     BlockOutput,
     CompiledBlock,
+    SetTemperatureEnthalpy,
     energy_outlet,
     enthalpy,
     outlet_pressure,
@@ -26,17 +27,22 @@ class CompiledHeater(CompiledBlock):
     duty: float | None
     phase: str | None
     pressure_drop: float
+    at_set_temperature: SetTemperatureEnthalpy | None = None
 
 
 def build_heater(common: dict[str, Any], specs: dict[str, Any], basis) -> CompiledHeater:
     phase = specs.get("phase", AS_INLET)
+    mode = specs.get("mode", "outlet temperature")
+    T = specs.get("T")
+    at_set = SetTemperatureEnthalpy(basis, T) if mode == "outlet temperature" else None
     return CompiledHeater(
         **common,
-        mode=specs.get("mode", "outlet temperature"),
-        T=specs.get("T"),
+        mode=mode,
+        T=T,
         duty=specs.get("duty"),
         phase=None if phase == AS_INLET else phase,
         pressure_drop=float(specs.get("pressure_drop") or 0.0),
+        at_set_temperature=at_set,
     )
 
 
@@ -47,7 +53,7 @@ def compute_heater(
     phase = block.phase or inlet.phase
     P = outlet_pressure(block, inlet.P, block.pressure_drop)
     warnings: list[str] = []
-    T, duty = energy_outlet(
+    T, duty, outlet_enthalpy = energy_outlet(
         block,
         basis,
         inlet.flows,
@@ -59,6 +65,7 @@ def compute_heater(
         inlet.T,
         strict,
         warnings,
+        block.at_set_temperature,
     )
-    outlet = StreamState(inlet.flows, T, P, phase)
+    outlet = StreamState(inlet.flows, T, P, phase, outlet_enthalpy)
     return BlockOutput({"out": outlet}, BlockResult(duty_W=duty, warnings=warnings))

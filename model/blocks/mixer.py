@@ -56,8 +56,11 @@ def compute_mixer(
     carrying = [s for s in inlets if s.flows.sum() > 0.0] or inlets
     temperatures = [s.T for s in carrying]
     warnings: list[str] = []
+    outlet_enthalpy = None
     if all(t == temperatures[0] for t in temperatures) and all(s.phase == phase for s in carrying):
         T = temperatures[0]
+        if all(s.enthalpy is not None for s in inlets):
+            outlet_enthalpy = float(sum(s.enthalpy for s in inlets))
     else:
         totals = np.array([s.flows.sum() for s in carrying])
         guess = (
@@ -65,14 +68,11 @@ def compute_mixer(
             if totals.sum() > 0
             else (float(np.mean(temperatures)))
         )
+        target = float(enthalpies(basis, inlets).sum())
         T = temperature_for_enthalpy(
-            block,
-            basis,
-            flows,
-            float(enthalpies(basis, inlets).sum()),
-            phase == "liquid",
-            guess,
-            strict,
-            warnings,
+            block, basis, flows, target, phase == "liquid", guess, strict, warnings
         )
-    return BlockOutput({"out": StreamState(flows, T, P, phase)}, BlockResult(warnings=warnings))
+        if not warnings and flows.sum() > 0.0:  # not held at a limit: it carries the target
+            outlet_enthalpy = target
+    outlet = StreamState(flows, T, P, phase, outlet_enthalpy)
+    return BlockOutput({"out": outlet}, BlockResult(warnings=warnings))

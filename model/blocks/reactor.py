@@ -18,6 +18,7 @@ from model.blocks.base import (
     ROUNDING,
     BlockOutput,
     CompiledBlock,
+    SetTemperatureEnthalpy,
     energy_outlet,
     enthalpy,
     outlet_pressure,
@@ -44,6 +45,7 @@ class CompiledReactor(CompiledBlock):
     duty: float | None
     phase: str | None
     pressure_drop: float
+    at_set_temperature: SetTemperatureEnthalpy | None = None
 
 
 def build_reactor(common: dict[str, Any], specs: dict[str, Any], basis) -> CompiledReactor:
@@ -64,6 +66,11 @@ def build_reactor(common: dict[str, Any], specs: dict[str, Any], basis) -> Compi
         component_names=tuple(basis.names),
         mode=specs.get("mode", "outlet temperature"),
         T=specs.get("T"),
+        at_set_temperature=(
+            SetTemperatureEnthalpy(basis, specs["T"])
+            if specs.get("mode", "outlet temperature") == "outlet temperature"
+            else None
+        ),
         duty=specs.get("duty"),
         phase=None if phase == AS_INLET else phase,
         pressure_drop=float(specs.get("pressure_drop") or 0.0),
@@ -119,7 +126,7 @@ def compute_reactor(
     flows, extents = react(block, inlet.flows, strict, warnings)
     phase = block.phase or inlet.phase
     P = outlet_pressure(block, inlet.P, block.pressure_drop)
-    T, duty = energy_outlet(
+    T, duty, outlet_enthalpy = energy_outlet(
         block,
         basis,
         flows,
@@ -131,10 +138,11 @@ def compute_reactor(
         inlet.T,
         strict,
         warnings,
+        block.at_set_temperature,
     )
     values: dict[str, tuple[float, str]] = {}
     for label, extent, heat in zip(block.labels, extents, block.heats_of_reaction, strict=True):
         values[f"extent {label}"] = (float(extent), "molar_flow")
         values[f"heat of reaction {label}"] = (float(heat), "molar_enthalpy")
     result = BlockResult(duty_W=duty, values=values, warnings=warnings)
-    return BlockOutput({"out": StreamState(flows, T, P, phase)}, result)
+    return BlockOutput({"out": StreamState(flows, T, P, phase, outlet_enthalpy)}, result)

@@ -66,8 +66,15 @@ def compute_splitter(
         shares = _set_flow_shares(block, float(inlet.flows.sum()), warnings)
     else:
         shares = block.fractions
+    known = inlet.enthalpy  # enthalpy is linear in the flows at one T: it splits too
     outlets = {
-        port: StreamState(inlet.flows * share, inlet.T, inlet.P, inlet.phase)
+        port: StreamState(
+            inlet.flows * share,
+            inlet.T,
+            inlet.P,
+            inlet.phase,
+            None if known is None else known * float(share),
+        )
         for port, share in zip(block.outlet_ports, shares, strict=True)
     }
     values = {

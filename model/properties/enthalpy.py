@@ -286,13 +286,35 @@ class PropertyBasis:
             heat, slope = self._stream_vaporization(flows, T)
             enthalpy -= heat
             heat_capacity -= slope
+        self._remember(key, enthalpy, heat_capacity)
+        return enthalpy, heat_capacity
+
+    def _remember(self, key: tuple[float, bool, bytes], enthalpy: float, capacity: float) -> None:
+        recent = self._recent
         if len(recent) >= _RECENT_SIZE:
             try:  # forget the oldest
                 del recent[next(iter(recent))]
             except (RuntimeError, KeyError, StopIteration):  # another thread was there first
                 recent.clear()
-        recent[key] = (enthalpy, heat_capacity)
-        return enthalpy, heat_capacity
+        recent[key] = (enthalpy, capacity)
+
+    def at_temperature(self, T: float, liquid: bool) -> tuple[np.ndarray, np.ndarray]:
+        """Each component's molar enthalpy (J/mol) and heat capacity (J/mol/K) at ``T`` in
+        one phase, for blocks that evaluate many streams at one set temperature."""
+        enthalpy, heat_capacity = self._ideal_gas(float(T))
+        if liquid:
+            heat, slope = self._vaporization(float(T))
+            enthalpy, heat_capacity = enthalpy - heat, heat_capacity - slope
+        return np.asarray(enthalpy, dtype=float), np.asarray(heat_capacity, dtype=float)
+
+    def remember_stream(
+        self, flows: np.ndarray, T: float, liquid: bool, enthalpy: float, capacity: float
+    ) -> None:
+        """Tell the single-stream path a stream's enthalpy and heat-capacity flows at T,
+        computed elsewhere (a set temperature's dot product), so the next block's first
+        look at that stream costs nothing."""
+        flows = np.asarray(flows, dtype=float)
+        self._remember((float(T), bool(liquid), flows.tobytes()), enthalpy, capacity)
 
     def _stream_vaporization(self, flows: np.ndarray, T: float) -> tuple[float, float]:
         """Flow-weighted Watson heat of vaporization (W) and its T derivative (W/K).

@@ -8,7 +8,7 @@ makes the stream (no phase equilibrium is computed).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -35,9 +35,15 @@ class StreamState:
     T: float
     P: float
     phase: str
+    #: The enthalpy flow (W) the block that made this state already knows (a set
+    #: temperature's, an energy balance's target, a split of a known inlet), so the
+    #: blocks downstream need not compute it again; None: not known, computed on demand.
+    enthalpy: float | None = field(default=None, compare=False, repr=False)
 
     def __post_init__(self) -> None:
-        self.flows = np.array(self.flows, dtype=float)
+        # No copy when given a float array: blocks pass their inlet's flows on (a heater's
+        # outlet has its inlet's), so flows are never changed in place; copy() copies.
+        self.flows = np.asarray(self.flows, dtype=float)
 
     @property
     def liquid(self) -> bool:
@@ -99,7 +105,7 @@ class StreamState:
 
     def copy(self) -> StreamState:
         """An independent copy (the flow array is copied too)."""
-        return StreamState(self.flows.copy(), self.T, self.P, self.phase)
+        return StreamState(self.flows.copy(), self.T, self.P, self.phase, self.enthalpy)
 
 
 def _is_finite_number(value: object) -> bool:
