@@ -7,7 +7,7 @@ so a pass does no unit conversion and no look-up by name.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -37,6 +37,10 @@ class CompiledBlock:
     inlet_streams: tuple[int, ...]
     outlet_ports: tuple[str, ...]
     outlet_streams: tuple[int, ...]
+    #: The temperature each of the block's energy balances found last pass, by what it
+    #: solved for: the next pass starts its search there (the recycle changes little
+    #: from pass to pass), which saves one or two evaluations of the correlations.
+    last_temperatures: dict[str, float] = field(default_factory=dict, repr=False, compare=False)
 
 
 @dataclass
@@ -122,8 +126,9 @@ def temperature_for_enthalpy(
                 raise CalculationError(block.name, detail)
             warnings.append(detail)
         return guess
+    start = block.last_temperatures.get(what, guess)
     try:
-        return float(basis.temperature_from_enthalpy(flows, target, liquid, guess))
+        T = float(basis.temperature_from_enthalpy(flows, target, liquid, start))
     except InputError as error:
         if strict:
             raise CalculationError(block.name, f"{what}: {error.allowed}") from None
@@ -134,6 +139,8 @@ def temperature_for_enthalpy(
         limit = T_SEARCH_MIN if target < low else T_SEARCH_MAX
         warnings.append(HeldTemperature(what, target, (low, high), limit, _BRACKET))
         return limit
+    block.last_temperatures[what] = T
+    return T
 
 
 def energy_outlet(
