@@ -175,7 +175,7 @@ class MainWindow(WindowSolveMixin, QMainWindow):
         self.log.block_activated.connect(self.select_block)
         self.log.stream_activated.connect(self.select_stream)
         self.stream_table.stream_activated.connect(self.select_stream)
-        self.solver.progress.connect(self._solve_progress)
+        self.solver.progress_batch.connect(self._solve_progress)
         self.solver.finished.connect(self._solve_finished)
         self.solver.failed.connect(self._solve_failed)
         self.checker.finished.connect(self._second_opinion_finished)

@@ -1,8 +1,13 @@
 """Runs a flowsheet solve in a worker thread and reports its progress as queued signals.
 
 The solve (``model.solve.driver.solve_flowsheet``) never touches Qt: its per-iteration callback
-emits a signal of the worker object, which lives in the worker thread, so the record
-reaches the window through Qt's queued connection and the window stays responsive. Stop
+hands the record to the worker object, which lives in the worker thread, and the records
+reach the window through Qt's queued connection. They are coalesced: at most one notice
+is queued at a time and the window takes every record that arrived since, so a fast
+solve (thousands of iterations a second) cannot flood the event loop. Each queued event
+makes the window's thread wait for the solve thread to let go of the interpreter lock
+(up to ``sys.getswitchinterval()``, 5 ms), so one event a record starved the window's
+own timers and paints. Stop
 asks the live settings to stop; the solve honours it at its next iteration and returns
 a solution with status "stopped".
 """
@@ -11,6 +16,7 @@ from __future__ import annotations
 
 import gc
 import importlib
+import threading
 import traceback
 from collections.abc import Callable
 from typing import Any
@@ -31,7 +37,7 @@ def _default_solve(
 class _SolveWorker(QObject):
     """Lives in the worker thread; runs one solve when ``run`` is called there."""
 
-    progress = Signal(object)
+    progress_ready = Signal()
     finished = Signal(object)
     failed = Signal(str)
 
@@ -43,6 +49,8 @@ class _SolveWorker(QObject):
         self._flowsheet = flowsheet
         self._method = method
         self._settings = settings
+        self._lock = threading.Lock()
+        self._pending: list[Any] = []
 
     @Slot()
     def run(self) -> None:
@@ -55,7 +63,17 @@ class _SolveWorker(QObject):
         self.finished.emit(solution)
 
     def _report(self, record: Any) -> None:
-        self.progress.emit(record)
+        with self._lock:
+            self._pending.append(record)
+            if len(self._pending) > 1:  # a notice is already on its way
+                return
+        self.progress_ready.emit()
+
+    def take_pending(self) -> list[Any]:
+        """The records reported since the last call, oldest first (any thread)."""
+        with self._lock:
+            records, self._pending = self._pending, []
+        return records
 
 
 class SolveController(QObject):
@@ -66,7 +84,10 @@ class SolveController(QObject):
     started()
         A solve began.
     progress(object)
-        One ``convergence.IterationRecord`` (queued from the worker thread).
+        One ``convergence.IterationRecord``, in the window's thread, in order.
+    progress_batch(object)
+        The list of records that arrived since the last batch (emitted before their
+        one-by-one ``progress``): the window handles a batch at once.
     finished(object)
         The ``model.solve.driver.FlowsheetSolution`` (also for "stopped" or "not converged").
     failed(str)
@@ -75,6 +96,7 @@ class SolveController(QObject):
 
     started = Signal()
     progress = Signal(object)
+    progress_batch = Signal(object)
     finished = Signal(object)
     failed = Signal(str)
 
@@ -108,7 +130,7 @@ class SolveController(QObject):
         thread.setObjectName("loopwright-solve")
         worker = _SolveWorker(solve or _default_solve, flowsheet, method, settings)
         worker.moveToThread(thread)
-        worker.progress.connect(self.progress)
+        worker.progress_ready.connect(self._take_progress)
         worker.finished.connect(self._on_finished)
         worker.failed.connect(self._on_failed)
         thread.started.connect(worker.run)
@@ -126,7 +148,18 @@ class SolveController(QObject):
         """Block until the worker thread ends (for shutting down); True if it did."""
         return self._thread.wait(milliseconds) if self._thread is not None else True
 
+    @Slot()
+    def _take_progress(self) -> None:
+        """Pass on every record the worker holds (a batch, then one by one)."""
+        records = self._worker.take_pending() if self._worker is not None else []
+        if not records:
+            return
+        self.progress_batch.emit(records)
+        for record in records:
+            self.progress.emit(record)
+
     def _end_thread(self) -> None:
+        self._take_progress()  # the last records come before the end of the run
         thread, worker = self._thread, self._worker
         self._thread = self._worker = None
         if thread is not None:
@@ -146,12 +179,16 @@ class SolveController(QObject):
 
 
 def preload_solver_modules() -> None:
-    """Import ``model.solve.driver`` and build the unit registry (which the window's
-    start-up no longer pays for: it is built on first use), then move every object alive
+    """Import ``model.solve.driver`` and scipy.optimize and build the unit registry
+    (which the window's start-up no longer pays for), then move every object alive
     now out of the cyclic garbage collector's way (``gc.freeze``): a full collection then
     takes milliseconds, not the ~100 ms pause that would otherwise hit the window in the
     middle of a solve."""
     importlib.import_module("model.solve.driver")
+    # The tear set of any loop is chosen by scipy's MILP: imported here, not in the first
+    # solve's thread, where its few hundred ms of import would hold the window up.
+    importlib.import_module("scipy.optimize")
+    importlib.import_module("scipy.sparse")
     from units_of_measure import get_registry
 
     get_registry()

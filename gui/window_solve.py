@@ -84,16 +84,25 @@ class WindowSolveMixin:
             self.solver.stop()
             self.show_message("Stopping at the next iteration…")
 
-    def _solve_progress(self, record) -> None:
-        residual = max(record.residuals.values()) if record.residuals else None
-        part = getattr(record, "part", "")
-        if part.endswith(" of 1"):  # one strongly connected part: nothing to tell apart
-            part = ""
-        if part and part != self._part_in_progress:  # the solve moved on to the next part
-            self._part_in_progress = part
-            self.log.add_message("info", f"Converging {part}: tears {', '.join(record.residuals)}")
-        self.status.set_progress(record.iteration, residual, part)
-        self.monitor.add_record(record)
+    def _solve_progress(self, records: list) -> None:
+        """Records that arrived since the last batch: the log names each part as the solve
+        reaches it, the status bar and the recycle monitor show the newest."""
+        for record in records:
+            part = getattr(record, "part", "")
+            if part.endswith(" of 1"):  # one strongly connected part: nothing to tell apart
+                part = ""
+            if part and part != self._part_in_progress:  # the solve moved on to the next part
+                self._part_in_progress = part
+                tears = ", ".join(record.residuals)
+                self.log.add_message("info", f"Converging {part}: tears {tears}")
+            self.monitor.add_record(record)
+        if records:
+            last = records[-1]
+            residual = max(last.residuals.values()) if last.residuals else None
+            part = getattr(last, "part", "")
+            self.status.set_progress(
+                last.iteration, residual, "" if part.endswith(" of 1") else part
+            )
 
     def _solve_finished(self, solution) -> None:
         self.case.solution = solution
