@@ -175,3 +175,36 @@ def test_a_case_written_without_positions_opens_laid_out(qtbot, window, tmp_path
     assert not window.files.is_modified()  # laid out as it opened, not an edit
     window.actions["lay_out"].trigger()
     assert window.undo_stack.count() in (0, 1)  # the same layout again is no edit
+
+
+def _save_diagram(qtbot, flowsheet, path, size, zoom=None):
+    scene, view, *_ = show(qtbot, flowsheet)
+    view.resize(*size)
+    view.show()
+    qtbot.waitExposed(view)
+    scene.refresh_states()
+    view.fit_to_view()
+    if zoom is not None:  # natural size, from the left end
+        view.reset_zoom()
+        left = scene.itemsBoundingRect().left()
+        view.centerOn(QPointF(left + size[0] / 2 - 40, 40))
+    qtbot.wait(20)
+    assert view.grab().save(str(path))
+    assert path.stat().st_size > 10_000  # a real picture
+    return scene
+
+
+def test_diagram_screenshots_of_the_examples_and_a_laid_out_case(qtbot, screenshot_dir):
+    for path in EXAMPLE_FILES:
+        name = path.name.split(".")[0]
+        flowsheet = load_case(path).flowsheet
+        _save_diagram(qtbot, flowsheet, screenshot_dir / f"diagram_{name}.png", (1400, 720))
+    small = generate_flowsheet(blocks=14, loops=3, components=2)
+    assert lay_out_if_unplaced(small)
+    _save_diagram(qtbot, small, screenshot_dir / "diagram_generated_14_blocks.png", (2000, 420))
+    large = generate_flowsheet(blocks=50, loops=10, components=2)
+    assert lay_out_if_unplaced(large)
+    scene = _save_diagram(
+        qtbot, large, screenshot_dir / "diagram_generated_50_blocks_start.png", (1800, 420), 1.0
+    )
+    assert block_crossings(scene, large) == []
