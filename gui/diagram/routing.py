@@ -44,6 +44,9 @@ class RouteSettings:
     #: a backward stream's runs above its lower end cost this fraction more, so recycles
     #: return below the line rather than over it
     below_bias: float = 0.25
+    #: running along another stream's line costs this many times the shared length more,
+    #: so two streams share a run only where there is no other way
+    share_cost: float = 2.0
 
 
 DEFAULT_SETTINGS = RouteSettings()
@@ -57,13 +60,16 @@ def route_stream(
     lane: int = 0,
     settings: RouteSettings = DEFAULT_SETTINGS,
     arrive_lane: int = 0,
+    occupied: Sequence[tuple[Point, Point]] = (),
 ) -> list[Point]:
     """Corner points from an outlet ``start`` to an inlet ``end`` around ``obstacles``.
 
     ``lane`` (the outlet's place on its block) moves the lines near blocks a little
     further out, so routes from neighbouring ports do not share a run; ``arrive_lane``
     (the inlet's place) lengthens the inlet stub likewise, so streams into neighbouring
-    inlets of one block come down to them on separate verticals. When no route
+    inlets of one block come down to them on separate verticals. ``occupied`` holds the
+    segments of the other streams' lines: running along one costs extra
+    (:attr:`RouteSettings.share_cost`), and lines a lane beside each are on the grid. When no route
     exists (an end stub inside another block), the plain two-bend route is returned.
 
     >>> route_stream((0.0, 0.0), (200.0, 0.0), [(-100.0, -30.0, 0.0, 30.0)])
@@ -76,7 +82,7 @@ def route_stream(
     region = _bounds(stops, settings.reach)
     chosen = {index for index, rect in enumerate(grown) if _overlaps(rect, region)}
     for _attempt in range(len(grown) + 1):
-        path = _search(stops, [grown[i] for i in sorted(chosen)], lane, settings)
+        path = _search(stops, [grown[i] for i in sorted(chosen)], lane, settings, occupied)
         if path is None:
             break
         crossed = {i for i, rect in enumerate(grown) if i not in chosen and _path_hits(path, rect)}
@@ -115,7 +121,11 @@ def segment_crosses(a: Point, b: Point, rect: Rect) -> bool:
 
 # ---- the search -----------------------------------------------------------------------------
 def _search(
-    stops: list[Point], rects: list[Rect], lane: int, settings: RouteSettings
+    stops: list[Point],
+    rects: list[Rect],
+    lane: int,
+    settings: RouteSettings,
+    occupied: Sequence[tuple[Point, Point]] = (),
 ) -> list[Point] | None:
     offset = settings.lane_spacing * lane
     outer = _bounds([*stops, *[(r[0], r[1]) for r in rects], *[(r[2], r[3]) for r in rects]], 0)
@@ -128,7 +138,12 @@ def _search(
     for a, b in pairwise(stops):  # a jog half-way between two stops
         xs.add((a[0] + b[0]) / 2)
         ys.add((a[1] + b[1]) / 2)
-    graph = _grid_graph(sorted(xs), sorted(ys), rects, set(stops), settings, stops)
+    region = (outer[0] - ring, outer[1] - ring, outer[2] + ring, outer[3] + ring)
+    runs = _runs_within(occupied, region)
+    spacing = settings.lane_spacing  # a lane beside a run near a block, to step aside to
+    xs |= {x + spacing for x in runs[ALONG] if any(abs(x - r[2]) <= spacing for r in rects)}
+    xs |= {x - spacing for x in runs[ALONG] if any(abs(x - r[0]) <= spacing for r in rects)}
+    graph = _grid_graph(sorted(xs), sorted(ys), rects, set(stops), settings, stops, runs)
     points: list[Point] = [stops[0]]
     for number, (a, b) in enumerate(pairwise(stops)):
         first, last = number == 0, number == len(stops) - 2
@@ -146,8 +161,9 @@ def _grid_graph(
     free: set[Point],
     settings: RouteSettings,
     stops: list[Point],
+    runs: dict[int, dict[float, list[tuple[float, float]]]],
 ) -> nx.Graph:
-    graph = nx.Graph()
+    edges: list[tuple[tuple, tuple, float]] = []
     high_y = max(p[1] for p in stops)
     backward = stops[-1][0] < stops[0][0]
     for y in ys:
@@ -156,16 +172,23 @@ def _grid_graph(
         row = [x for x in xs if (x, y) in free or not any(lo < x < hi for lo, hi in blocked)]
         for a, b in pairwise(row):
             if not any(lo < b and hi > a for lo, hi in blocked):
-                graph.add_edge((a, y, ACROSS), (b, y, ACROSS), weight=(b - a) * factor)
+                shared = _shared(runs[ACROSS].get(y, ()), a, b) * settings.share_cost
+                edges.append(((a, y, ACROSS), (b, y, ACROSS), (b - a) * factor + shared))
     for x in xs:
         blocked = [(r[1], r[3]) for r in rects if r[0] < x < r[2]]
         column = [y for y in ys if (x, y) in free or not any(lo < y < hi for lo, hi in blocked)]
         for a, b in pairwise(column):
             if not any(lo < b and hi > a for lo, hi in blocked):
-                graph.add_edge((x, a, ALONG), (x, b, ALONG), weight=b - a)
-    for x, y, _direction in list(graph.nodes):
-        if graph.has_node((x, y, ACROSS)) and graph.has_node((x, y, ALONG)):
-            graph.add_edge((x, y, ACROSS), (x, y, ALONG), weight=settings.bend_cost)
+                shared = _shared(runs[ALONG].get(x, ()), a, b) * settings.share_cost
+                edges.append(((x, a, ALONG), (x, b, ALONG), b - a + shared))
+    ends = {node for edge in edges for node in edge[:2]}
+    edges += [
+        ((x, y, ACROSS), (x, y, ALONG), settings.bend_cost)
+        for x, y, direction in ends
+        if direction == ACROSS and (x, y, ALONG) in ends
+    ]
+    graph = nx.Graph()
+    graph.add_weighted_edges_from(edges)
     return graph
 
 
@@ -191,6 +214,30 @@ def _leg(
             if graph.has_node(node):
                 graph.remove_node(node)
     return simplify([(node[0], node[1]) for node in path[1:-1]])
+
+
+def _runs_within(
+    segments: Sequence[tuple[Point, Point]], region: Rect
+) -> dict[int, dict[float, list[tuple[float, float]]]]:
+    """Other lines' runs inside ``region``: horizontal ones by y, vertical ones by x,
+    each as (low, high) along its line."""
+    runs: dict[int, dict[float, list[tuple[float, float]]]] = {ACROSS: {}, ALONG: {}}
+    left, top, right, bottom = region
+    for a, b in segments:
+        if a[1] == b[1] and top <= a[1] <= bottom:
+            low, high = sorted((a[0], b[0]))
+            if low < right and high > left:
+                runs[ACROSS].setdefault(a[1], []).append((low, high))
+        elif a[0] == b[0] and left <= a[0] <= right:
+            low, high = sorted((a[1], b[1]))
+            if low < bottom and high > top:
+                runs[ALONG].setdefault(a[0], []).append((low, high))
+    return runs
+
+
+def _shared(runs: Sequence[tuple[float, float]], a: float, b: float) -> float:
+    """Length of a..b that lies along any of ``runs``."""
+    return sum(max(0.0, min(b, high) - max(a, low)) for low, high in runs)
 
 
 # ---- geometry -------------------------------------------------------------------------------

@@ -209,8 +209,18 @@ class DiagramScene(QGraphicsScene):
             bends,
             lane,
             arrive_lane=target.port_index("in", stream.target_port),
+            occupied=self._occupied(item),
         )
         item.set_route([QPointF(x, y) for x, y in points], [QPointF(x, y) for x, y in bends])
+
+    def _occupied(self, routed: StreamItem) -> list[tuple[routing.Point, routing.Point]]:
+        """The segments of every other stream's line (a route keeps off them if it can)."""
+        return [
+            segment
+            for item in self._stream_items.values()
+            if item is not routed
+            for segment in pairwise(item.route())
+        ]
 
     def reroute_all(self) -> None:
         """Route every stream again (after loading or a new layout)."""
