@@ -208,3 +208,20 @@ def test_diagram_screenshots_of_the_examples_and_a_laid_out_case(qtbot, screensh
         qtbot, large, screenshot_dir / "diagram_generated_50_blocks_start.png", (1800, 420), 1.0
     )
     assert block_crossings(scene, large) == []
+
+
+def test_the_command_line_report_of_a_case_without_positions_is_laid_out(qtbot, tmp_path):
+    from gui.report import report_for_command_line
+
+    data = json.loads((EXAMPLES / "ammonia_synthesis_loop.loop.json").read_text("utf-8"))
+    for block in data["blocks"]:
+        block.pop("position", None)
+    path = tmp_path / "scripted.loop.json"
+    path.write_text(json.dumps(data), encoding="utf-8")
+    case = load_case(path)
+    case.solve()  # as ``loopwright export`` does before it writes
+    assert case.solution is not None and case.solution.converged
+    pdf = report_for_command_line(case, str(path))
+    assert pdf.startswith(b"%PDF-")
+    positions = [block.position for block in case.flowsheet.blocks.values()]
+    assert len(set(positions)) == len(positions)
