@@ -225,3 +225,20 @@ def test_the_command_line_report_of_a_case_without_positions_is_laid_out(qtbot, 
     assert pdf.startswith(b"%PDF-")
     positions = [block.position for block in case.flowsheet.blocks.values()]
     assert len(set(positions)) == len(positions)
+
+
+def test_a_double_click_on_a_streams_label_still_asks_for_its_new_name(qtbot, mouse):
+    flowsheet = load_case(EXAMPLES / "ammonia_synthesis_loop.loop.json").flowsheet
+    scene, view, _stack, _editor = show(qtbot, flowsheet)
+    view.show()
+    qtbot.waitExposed(view)
+    item = scene.stream_item("Recycle gas")
+    label = item.shape().boundingRect()
+    at = QPointF(item.midpoint().x(), item.midpoint().y() - 8)  # on the words, above the line
+    assert item.label_contains(at) and label.contains(at)
+    view.centerOn(at)
+    scene.rename_requested.disconnect()  # no dialog: the request is what is checked
+    with qtbot.waitSignal(scene.rename_requested) as asked:
+        mouse(view).double_click(at)
+    assert asked.args == ["stream", "Recycle gas"]
+    assert flowsheet.stream("Recycle gas").bends == ()
