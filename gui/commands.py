@@ -333,3 +333,35 @@ def _free_name(prefix: str, taken: set[str]) -> str:
         number += 1
     taken.add(f"{prefix}{number}")
     return f"{prefix}{number}"
+
+
+class SetBendsCommand(_Command):
+    """Set the user's bend points of one stream's line (add, move or remove one)."""
+
+    def __init__(self, flowsheet: Flowsheet, name: str, bends: list[Position], parent=None):
+        super().__init__(f"Bend {name}", parent)
+        self._flowsheet, self._name = flowsheet, name
+        self._old, self._new = flowsheet.stream(name).bends, tuple(bends)
+
+    def apply(self) -> None:
+        self._flowsheet.set_stream_bends(self._name, self._new)
+
+    def revert(self) -> None:
+        self._flowsheet.set_stream_bends(self._name, self._old)
+
+
+class LayOutCommand(_Command):
+    """Move every block to a new layout and clear the bend points (one undo step)."""
+
+    def __init__(self, flowsheet: Flowsheet, positions: dict[str, Position], parent=None):
+        super().__init__("Lay out diagram", parent)
+        moves = {
+            name: (flowsheet.block(name).position, new)
+            for name, new in positions.items()
+            if flowsheet.block(name).position != new
+        }
+        if moves:
+            MoveBlocksCommand(flowsheet, moves, parent=self)
+        for stream in flowsheet.streams.values():
+            if stream.bends:
+                SetBendsCommand(flowsheet, stream.name, [], parent=self)

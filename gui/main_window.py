@@ -15,7 +15,7 @@ from PySide6.QtCore import Qt, QTimer
 from PySide6.QtGui import QCloseEvent, QUndoStack
 from PySide6.QtWidgets import QDockWidget, QMainWindow, QTabWidget, QWidget
 
-from gui.diagram.editor import DiagramEditor
+from gui.diagram.editor import DiagramEditor, lay_out_if_unplaced
 from gui.diagram.scene import DiagramScene
 from gui.diagram.shelf import BlockShelf
 from gui.diagram.view import DiagramView
@@ -194,6 +194,7 @@ class MainWindow(WindowSolveMixin, QMainWindow):
         self._edited_flowsheet = case.flowsheet
         for signal in self._edit_signals(case.flowsheet):
             signal.connect(self._model_edited)
+        lay_out_if_unplaced(case.flowsheet)
         self.scene.set_flowsheet(case.flowsheet)
         self.details.set_unit_system(case.unit_system)
         self.details.set_solution(case.solution)

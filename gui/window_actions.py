@@ -131,6 +131,15 @@ def build_actions(window: ActionHost) -> WindowActions:
     _action(window, a, "fit", "&Fit to View", window.view.fit_to_view, "Ctrl+0")
     _action(window, a, "zoom_in", "Zoom &In", lambda: window.view.zoom_by(1.25), key.ZoomIn)
     _action(window, a, "zoom_out", "Zoom &Out", lambda: window.view.zoom_by(0.8), key.ZoomOut)
+    _action(
+        window,
+        a,
+        "lay_out",
+        "&Lay Out Diagram",
+        editor.lay_out,
+        "Ctrl+L",
+        "Place the blocks anew: calculation order left to right, recycles below (undoable)",
+    )
     _action(window, a, "solve", "&Solve", window.start_solve, "F5", "Solve the flowsheet (F5)")
     _action(window, a, "stop", "S&top", window.stop_solve, "Esc", "Stop the solve (Esc)")
     _action(
@@ -200,6 +209,7 @@ def _build_menus(window: ActionHost, result: WindowActions) -> None:
     edit_menu.addAction(a["components"])
     view_menu = bar.addMenu("&View")
     view_menu.addActions([a["fit"], a["zoom_in"], a["zoom_out"]])
+    view_menu.addAction(a["lay_out"])
     view_menu.addSeparator()
     units_menu = view_menu.addMenu("&Unit System")
     units_menu.addActions(result.unit_group.actions())

@@ -54,6 +54,11 @@ def name_lines(name: str, metrics: QFontMetricsF, width: float) -> list[str]:
     return [first, metrics.elidedText(rest, Qt.TextElideMode.ElideRight, width)]
 
 
+def block_height(inlet_count: int, outlet_count: int) -> float:
+    """A block's drawn height: room for its ports, at least the minimum height."""
+    return max(look.BLOCK_MIN_HEIGHT, look.PORT_SPACING * (max(inlet_count, outlet_count) + 1))
+
+
 class PortItem(QGraphicsEllipseItem):
     """An inlet or outlet circle; the scene starts a stream drag from it."""
 
@@ -165,9 +170,7 @@ class BlockItem(QGraphicsItem):
                 if port_item.scene() is not None:
                     port_item.scene().removeItem(port_item)
             self.prepareGeometryChange()
-            self._height = max(
-                look.BLOCK_MIN_HEIGHT, look.PORT_SPACING * (max(len(inlets), len(outlets)) + 1)
-            )
+            self._height = block_height(len(inlets), len(outlets))
             self._ports = {
                 key: PortItem(self, key[0], key[1], self._port_label(key[1])) for key in wanted
             }

@@ -1,5 +1,5 @@
-"""Turns the diagram's gestures into undo commands: add, connect, move, rename, delete,
-copy and paste.
+"""Turns the diagram's gestures into undo commands: add, connect, move, bend, rename,
+delete, copy and paste, and a new automatic layout.
 
 The scene and view only report what the user did; this editor builds the command,
 pushes it with :func:`gui.commands.execute` and explains a refusal by the model (a
@@ -17,6 +17,8 @@ from PySide6.QtWidgets import QInputDialog, QLineEdit, QMessageBox, QWidget
 
 from gui import commands
 from gui.diagram import look
+from gui.diagram.block_item import block_height
+from gui.diagram.layout import flowsheet_layout, needs_layout
 from gui.diagram.scene import DiagramScene
 from gui.diagram.view import DiagramView
 from model.errors import LoopwrightError
@@ -49,6 +51,7 @@ class DiagramEditor(QObject):
         scene.dangling_released.connect(self.finish_dangling)
         scene.blocks_moved.connect(self.move_blocks)
         scene.rename_requested.connect(self.ask_rename)
+        scene.bends_requested.connect(self.set_bends)
         scene.message.connect(self.message)
         view.block_dropped.connect(self.add_block)
 
@@ -111,6 +114,21 @@ class DiagramEditor(QObject):
                 item = self._scene.block_item(name)
                 if item is not None:
                     item.setPos(*flowsheet.block(name).position)
+
+    def set_bends(self, stream: str, bends: list) -> bool:
+        """Give a stream's line these bend points (one undo step)."""
+        return self._run(commands.SetBendsCommand(self._flowsheet(), stream, bends))
+
+    def lay_out(self) -> bool:
+        """Place every block anew, calculation order left to right (one undo step)."""
+        flowsheet = self._flowsheet()
+        if not flowsheet.blocks:
+            self.message.emit("There are no blocks to lay out.")
+            return False
+        if self._run(commands.LayOutCommand(flowsheet, automatic_positions(flowsheet))):
+            self._view.fit_to_view()
+            return True
+        return False
 
     # ---- names ----------------------------------------------------------------------
     def ask_rename(self, what: str, name: str) -> bool:
@@ -192,3 +210,22 @@ class DiagramEditor(QObject):
         for item in self._scene.items():
             if item.flags() & item.GraphicsItemFlag.ItemIsSelectable:
                 item.setSelected(True)
+
+
+def automatic_positions(flowsheet: Flowsheet) -> dict[str, tuple[float, float]]:
+    """A layered layout of ``flowsheet`` at the drawn block sizes (see gui.diagram.layout)."""
+
+    def height_of(name: str) -> float:
+        return block_height(len(flowsheet.inlet_ports(name)), len(flowsheet.outlet_ports(name)))
+
+    return flowsheet_layout(flowsheet, height_of)
+
+
+def lay_out_if_unplaced(flowsheet: Flowsheet) -> bool:
+    """Give a flowsheet with no positions of its own (all blocks at one place) a layout,
+    directly and not as an edit (used when a case is opened); return whether it did."""
+    if not needs_layout([block.position for block in flowsheet.blocks.values()]):
+        return False
+    for name, position in automatic_positions(flowsheet).items():
+        flowsheet.move_block(name, position)
+    return True

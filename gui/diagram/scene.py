@@ -9,19 +9,22 @@ undo command.
 from __future__ import annotations
 
 import math
+from itertools import pairwise
 
 from PySide6.QtCore import QPointF, QRectF, Qt, QTimer, Signal
 from PySide6.QtGui import QPainter, QPen, QTransform
 from PySide6.QtWidgets import QGraphicsLineItem, QGraphicsScene, QGraphicsSceneMouseEvent
 
-from gui.diagram import look
+from gui.diagram import look, routing
 from gui.diagram.block_item import BlockItem, PortItem
 from gui.diagram.result_text import describe_block, describe_stream
-from gui.diagram.stream_item import StreamItem, orthogonal_route
+from gui.diagram.stream_item import StreamItem
 from model.flowsheet.document import Block, Flowsheet, Stream
 
 DRAG_THRESHOLD = 4.0
 MINIMUM_RECT = QRectF(-2000, -1500, 4000, 3000)
+#: Room kept under a block for its state badge: lines keep off it too.
+BADGE_ROOM = 22.0
 
 
 class DiagramScene(QGraphicsScene):
@@ -32,7 +35,10 @@ class DiagramScene(QGraphicsScene):
     connection_requested(source, source_port, target, target_port)
     dangling_released(block, port, x, y): a port drag released on empty space.
     blocks_moved(dict): block name -> ((old x, old y), (new x, new y)), on release.
-    rename_requested(what, name): ``what`` is "block" or "stream" (double-click).
+    rename_requested(what, name): ``what`` is "block" or "stream" (double-click on a
+        block or on a stream's label).
+    bends_requested(stream, points): new bend points for a stream's line (a double-click
+        on the line adds one, on a bend point removes it; a bend point dragged moves it).
     message(str): a short explanation for the status bar (a refused gesture).
     """
 
@@ -40,6 +46,7 @@ class DiagramScene(QGraphicsScene):
     dangling_released = Signal(str, str, float, float)
     blocks_moved = Signal(dict)
     rename_requested = Signal(str, str)
+    bends_requested = Signal(str, list)
     message = Signal(str)
 
     def __init__(self, parent=None) -> None:
@@ -59,6 +66,9 @@ class DiagramScene(QGraphicsScene):
         self._solving = False
         self._unit_system = "Metric"
         self._refresh_pending = False
+        self._obstacles: list[routing.Rect] | None = None
+        self._loading = False
+        self._bend_drag: tuple[StreamItem, int] | None = None
 
     # ---- the model ------------------------------------------------------------
     def flowsheet(self) -> Flowsheet | None:
@@ -77,10 +87,15 @@ class DiagramScene(QGraphicsScene):
         self._flowsheet = flowsheet
         for signal, slot in self._connections(flowsheet):
             signal.connect(slot)
-        for block in flowsheet.blocks.values():
-            self._on_block_added(block)
-        for stream in flowsheet.streams.values():
-            self._on_stream_added(stream)
+        self._loading = True  # route every stream once, when all blocks have their ports
+        try:
+            for block in flowsheet.blocks.values():
+                self._on_block_added(block)
+            for stream in flowsheet.streams.values():
+                self._on_stream_added(stream)
+        finally:
+            self._loading = False
+        self.reroute_all()
         self.refresh_states()
 
     def _connections(self, flowsheet: Flowsheet):
@@ -94,6 +109,7 @@ class DiagramScene(QGraphicsScene):
             (flowsheet.stream_removed, self._on_stream_removed),
             (flowsheet.stream_renamed, self._on_stream_renamed),
             (flowsheet.stream_changed, self._on_stream_changed),
+            (flowsheet.stream_bends_changed, self._on_stream_bends_changed),
             (flowsheet.components_changed, self._schedule_refresh),
         ]
 
@@ -103,6 +119,7 @@ class DiagramScene(QGraphicsScene):
         self._block_items[block] = item
         self._attached[block] = set()
         self.addItem(item)
+        self._obstacles = None
         self._refresh_ports(block)
         self._schedule_refresh()
 
@@ -110,6 +127,7 @@ class DiagramScene(QGraphicsScene):
         item = self._block_items.pop(block)
         self._attached.pop(block, None)
         self.removeItem(item)
+        self._obstacles = None
         self._schedule_refresh()
 
     def _on_block_renamed(self, block: Block, _old: str) -> None:
@@ -120,6 +138,7 @@ class DiagramScene(QGraphicsScene):
         item = self._block_items[block]
         if (item.pos().x(), item.pos().y()) != block.position:
             item.setPos(*block.position)
+        self._reroute_crossing(item)
 
     def _on_specs_changed(self, _block: Block, _field: str) -> None:
         self._schedule_refresh()
@@ -151,8 +170,12 @@ class DiagramScene(QGraphicsScene):
     def _on_stream_changed(self, _stream: Stream) -> None:
         self._schedule_refresh()
 
+    def _on_stream_bends_changed(self, stream: Stream) -> None:
+        self._route(self._stream_items[stream])
+
     # ---- geometry -----------------------------------------------------------------
     def _refresh_ports(self, block: Block) -> None:
+        self._obstacles = None
         flowsheet = self._flowsheet
         connected = {("in", s.target_port) for s in flowsheet.inlet_streams(block.name)}
         connected |= {("out", s.source_port) for s in flowsheet.outlet_streams(block.name)}
@@ -162,21 +185,63 @@ class DiagramScene(QGraphicsScene):
         for stream_item in self._attached.get(block, ()):
             self._route(stream_item)
 
-    def _route(self, item: StreamItem) -> None:
+    def obstacles(self) -> list[routing.Rect]:
+        """Every block's rectangle with room for its badge, as the router takes them."""
+        if self._obstacles is None:
+            self._obstacles = [_obstacle(item) for item in self._block_items.values()]
+        return self._obstacles
+
+    def _route(self, item: StreamItem, bends: list[tuple[float, float]] | None = None) -> None:
+        """Route one stream around the blocks (through ``bends``, else the stream's own)."""
+        if self._loading:
+            return
         stream = item.stream
         source = self._block_items[self._flowsheet.blocks[stream.source]]
         target = self._block_items[self._flowsheet.blocks[stream.target]]
         start = source.port_scene_position("out", stream.source_port)
         end = target.port_scene_position("in", stream.target_port)
         lane = source.port_index("out", stream.source_port)
-        item.set_route(
-            orthogonal_route(start, end, source.scene_body_rect(), target.scene_body_rect(), lane)
+        bends = list(stream.bends) if bends is None else bends
+        points = routing.route_stream(
+            (start.x(), start.y()),
+            (end.x(), end.y()),
+            self.obstacles(),
+            bends,
+            lane,
+            arrive_lane=target.port_index("in", stream.target_port),
+            occupied=self._occupied(item),
         )
+        item.set_route([QPointF(x, y) for x, y in points], [QPointF(x, y) for x, y in bends])
+
+    def _occupied(self, routed: StreamItem) -> list[tuple[routing.Point, routing.Point]]:
+        """The segments of every other stream's line (a route keeps off them if it can)."""
+        return [
+            segment
+            for item in self._stream_items.values()
+            if item is not routed
+            for segment in pairwise(item.route())
+        ]
+
+    def reroute_all(self) -> None:
+        """Route every stream again (after loading or a new layout)."""
+        self._obstacles = None
+        for item in self._stream_items.values():
+            self._route(item)
 
     def block_item_moved(self, item: BlockItem) -> None:
-        """Called by a block item while it moves: its streams follow."""
+        """Called by a block item while it moves: its own streams follow (only those, so a
+        drag stays smooth; the others are checked when the move ends)."""
+        self._obstacles = None
         for stream_item in self._attached.get(item.block, ()):
             self._route(stream_item)
+
+    def _reroute_crossing(self, item: BlockItem) -> None:
+        """After a move: route again the other streams whose line now crosses the block."""
+        rect = _obstacle(item)
+        for stream_item in self._stream_items.values():
+            route = stream_item.route()
+            if any(routing.segment_crosses(a, b, rect) for a, b in pairwise(route)):
+                self._route(stream_item)
 
     # ---- look-up and selection ----------------------------------------------------
     def block_item(self, name: str) -> BlockItem | None:
@@ -306,11 +371,36 @@ class DiagramScene(QGraphicsScene):
             self._update_drag_line(event.scenePos())
             event.accept()
             return
+        bend = self._bend_at(event.scenePos())
+        if bend is not None and self._editable and event.button() == Qt.MouseButton.LeftButton:
+            self._bend_drag = bend
+            event.accept()
+            return
         super().mousePressEvent(event)
+
+    def _bend_at(self, position: QPointF) -> tuple[StreamItem, int] | None:
+        """A bend point of a selected stream under ``position``."""
+        for item in self.items(position):
+            if isinstance(item, StreamItem) and item.isSelected():
+                index = item.bend_at(position)
+                if index is not None:
+                    return item, index
+        return None
+
+    def _dragged_bends(self, position: QPointF) -> list[tuple[float, float]]:
+        item, index = self._bend_drag
+        bends = list(item.stream.bends)
+        step = look.GRID_STEP / 2  # bend points snap to half the canvas grid
+        bends[index] = (round(position.x() / step) * step, round(position.y() / step) * step)
+        return bends
 
     def mouseMoveEvent(self, event: QGraphicsSceneMouseEvent) -> None:
         if self._drag_port is not None:
             self._update_drag_line(event.scenePos())
+            event.accept()
+            return
+        if self._bend_drag is not None:
+            self._route(self._bend_drag[0], self._dragged_bends(event.scenePos()))
             event.accept()
             return
         super().mouseMoveEvent(event)
@@ -327,6 +417,15 @@ class DiagramScene(QGraphicsScene):
             moved = event.scenePos() - self._press_position
             if math.hypot(moved.x(), moved.y()) >= DRAG_THRESHOLD:
                 self._finish_port_drag(port, event.scenePos())
+            event.accept()
+            return
+        if self._bend_drag is not None:
+            item = self._bend_drag[0]
+            bends = self._dragged_bends(event.scenePos())
+            self._bend_drag = None
+            if bends != list(item.stream.bends):
+                self.bends_requested.emit(item.stream.name, bends)
+            self._route(item)  # as the model has it, should the request be refused
             event.accept()
             return
         super().mouseReleaseEvent(event)
@@ -377,13 +476,34 @@ class DiagramScene(QGraphicsScene):
                 event.accept()
                 return
             if isinstance(item, StreamItem):
-                self.rename_requested.emit("stream", item.stream.name)
+                self._double_click_stream(item, event.scenePos())
                 event.accept()
                 return
         super().mouseDoubleClickEvent(event)
+
+    def _double_click_stream(self, item: StreamItem, position: QPointF) -> None:
+        """On the label: rename; on a bend point: remove it; elsewhere on the line: add one."""
+        stream = item.stream
+        if item.label_contains(position):
+            self.rename_requested.emit("stream", stream.name)
+            return
+        if not self._editable:
+            return
+        index = item.bend_at(position)
+        if index is not None:
+            bends = [bend for number, bend in enumerate(stream.bends) if number != index]
+        else:
+            point = (float(round(position.x())), float(round(position.y())))
+            bends = routing.insert_bend(item.route(), list(stream.bends), point)
+        self.bends_requested.emit(stream.name, bends)
 
     # ---- canvas -------------------------------------------------------------------
     def drawBackground(self, painter: QPainter, rect: QRectF) -> None:
         painter.fillRect(rect, look.CANVAS)
         if painter.worldTransform().m11() >= 0.5:
             painter.fillRect(rect, look.grid_brush())
+
+
+def _obstacle(item: BlockItem) -> routing.Rect:
+    rect = item.scene_body_rect()
+    return (rect.left(), rect.top(), rect.right(), rect.bottom() + BADGE_ROOM)

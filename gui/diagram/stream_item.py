@@ -1,8 +1,12 @@
 """Graphics item for a material stream: an orthogonal dark slate line with an arrowhead,
-its number and name at the midpoint, and a teal double bar when it is a tear stream."""
+its number and name at the midpoint, and a teal double bar when it is a tear stream.
+
+The route itself comes from :mod:`gui.diagram.routing` (the scene sets it); the user's
+bend points on it are shown as small squares while the stream is selected."""
 
 from __future__ import annotations
 
+import math
 from functools import cache
 
 from PySide6.QtCore import QLineF, QPointF, QRectF, Qt
@@ -22,44 +26,12 @@ from gui.diagram import look
 from model.flowsheet.document import Stream
 from model.report.stream_numbers import stream_label
 
+BEND_HIT_RADIUS = 7.0
+
 
 @cache
 def _label_font() -> QFont:
     return look.font(8.0)
-
-
-def orthogonal_route(
-    start: QPointF,
-    end: QPointF,
-    source_box: QRectF,
-    target_box: QRectF,
-    lane: int = 0,
-) -> list[QPointF]:
-    """Corner points of a right-angled route from an outlet to an inlet.
-
-    Forward streams (target to the right) take one vertical jog half-way; backward
-    streams, such as recycles, leave to the right, run below both blocks and enter the
-    inlet from the left. When the target is well above the source, the route runs
-    through the gap between the two blocks (over the top of both when they overlap in
-    height), so it does not loop around the target. ``lane`` (the port's place on its
-    block) spaces backward routes apart, so two of them never share a vertical run.
-    """
-    offset = look.STUB + look.LANE_SPACING * lane
-    leave = QPointF(start.x() + offset, start.y())
-    arrive = QPointF(end.x() - offset, end.y())
-    if end.x() - start.x() >= look.ARROW_LENGTH:
-        middle_x = (start.x() + end.x()) / 2
-        return [start, QPointF(middle_x, start.y()), QPointF(middle_x, end.y()), end]
-    margin = 34 + look.LANE_SPACING * lane
-    if end.y() < start.y() - look.BLOCK_MIN_HEIGHT:  # target well above the source
-        gap = source_box.top() - target_box.bottom()
-        if gap >= 2 * look.STUB:  # between the two blocks
-            lane_y = target_box.bottom() + gap / 2 - look.LANE_SPACING * lane
-        else:  # over the top of both
-            lane_y = min(source_box.top(), target_box.top()) - margin
-    else:
-        lane_y = max(source_box.bottom(), target_box.bottom()) + margin
-    return [start, leave, QPointF(leave.x(), lane_y), QPointF(arrive.x(), lane_y), arrive, end]
 
 
 class StreamItem(QGraphicsItem):
@@ -70,17 +42,21 @@ class StreamItem(QGraphicsItem):
         self.stream = stream
         self.is_tear = False
         self._points: list[QPointF] = []
+        self._bends: list[QPointF] = []
         self._path = QPainterPath()
         self._shape = QPainterPath()
         self._label_rect = QRectF()
+        self._shown_text = ""
         self._bounds = QRectF()
         self.setFlags(QGraphicsItem.GraphicsItemFlag.ItemIsSelectable)
         self.setAcceptHoverEvents(True)
         self.setZValue(0)
 
-    def set_route(self, points: list[QPointF]) -> None:
+    def set_route(self, points: list[QPointF], bends: list[QPointF] = ()) -> None:
+        """Draw the line through ``points``; ``bends`` are the user's bend points on it."""
         self.prepareGeometryChange()
         self._points = points
+        self._bends = list(bends)
         self._path = QPainterPath(points[0])
         for point in points[1:]:
             self._path.lineTo(point)
@@ -94,6 +70,20 @@ class StreamItem(QGraphicsItem):
             self.is_tear = is_tear
             self.update()
 
+    def route(self) -> list[tuple[float, float]]:
+        """The line's corner points, from the outlet to the inlet."""
+        return [(point.x(), point.y()) for point in self._points]
+
+    def bend_at(self, position: QPointF) -> int | None:
+        """The index of the user's bend point under ``position`` (scene), if any."""
+        for index, bend in enumerate(self._bends):
+            if math.hypot(bend.x() - position.x(), bend.y() - position.y()) <= BEND_HIT_RADIUS:
+                return index
+        return None
+
+    def label_contains(self, position: QPointF) -> bool:
+        return self._label_rect.contains(position)
+
     def name_changed(self) -> None:
         self.prepareGeometryChange()
         self._update_label_rect()
@@ -103,12 +93,32 @@ class StreamItem(QGraphicsItem):
         its column)."""
         return stream_label(self.stream.number, self.stream.name)
 
+    def shown_text(self) -> str:
+        """The label as drawn: number and name, or the number alone when the name would
+        not fit beside the line's longest run (it would run under the next block)."""
+        return self._shown_text
+
     def midpoint(self) -> QPointF:
-        return self._path.pointAtPercent(0.5) if self._points else QPointF()
+        """Where the label sits: the middle of the line's longest horizontal run (the
+        longest run of all when none is horizontal), so it is read beside a straight
+        stretch rather than squeezed between two blocks."""
+        a, b = self._label_run()
+        return (a + b) / 2
+
+    def _label_run(self) -> tuple[QPointF, QPointF]:
+        if len(self._points) < 2:
+            return QPointF(), QPointF()
+        runs = list(zip(self._points, self._points[1:], strict=False))
+        across = [run for run in runs if run[0].y() == run[1].y()] or runs
+        return max(across, key=lambda run: QLineF(*run).length())
 
     def _update_label_rect(self) -> None:
         metrics = QFontMetricsF(_label_font())
-        width = metrics.horizontalAdvance(self.label_text()) + 8
+        room = QLineF(*self._label_run()).length() - 2 * look.ARROW_LENGTH
+        self._shown_text = self.label_text()
+        if metrics.horizontalAdvance(self._shown_text) + 8 > room:
+            self._shown_text = str(self.stream.number or "") or self._shown_text
+        width = metrics.horizontalAdvance(self._shown_text) + 8
         height = metrics.height() + 2
         middle = self.midpoint()
         self._label_rect = QRectF(middle.x() - width / 2, middle.y() - height - 3, width, height)
@@ -144,6 +154,11 @@ class StreamItem(QGraphicsItem):
         self._paint_arrowhead(painter, colour)
         if self.is_tear:
             self._paint_tear_mark(painter)
+        if self.isSelected():
+            painter.setPen(QPen(colour, 1.2))
+            painter.setBrush(QBrush(look.BLOCK_FILL))
+            for bend in self._bends:
+                painter.drawRect(QRectF(bend.x() - 4, bend.y() - 4, 8, 8))
         if look.zoom_of(painter) < look.DETAIL_ZOOM:
             return
         painter.setPen(Qt.PenStyle.NoPen)
@@ -151,7 +166,7 @@ class StreamItem(QGraphicsItem):
         painter.drawRoundedRect(self._label_rect, 3, 3)
         painter.setFont(_label_font())
         painter.setPen(colour)
-        painter.drawText(self._label_rect, Qt.AlignmentFlag.AlignCenter, self.label_text())
+        painter.drawText(self._label_rect, Qt.AlignmentFlag.AlignCenter, self._shown_text)
 
     def _paint_arrowhead(self, painter: QPainter, colour) -> None:
         tip = self._points[-1]
@@ -165,10 +180,20 @@ class StreamItem(QGraphicsItem):
         painter.setBrush(colour)
         painter.drawPolygon(QPolygonF([tip, back + offset, back - offset]))
 
+    def _length_to(self, point: QPointF) -> float:
+        """Length along the line from its start to ``point`` (a point on it)."""
+        travelled = 0.0
+        for a, b in zip(self._points, self._points[1:], strict=False):
+            run = QLineF(a, b)
+            if QLineF(a, point).length() + QLineF(point, b).length() <= run.length() + 1e-6:
+                return travelled + QLineF(a, point).length()
+            travelled += run.length()
+        return travelled / 2
+
     def _paint_tear_mark(self, painter: QPainter) -> None:
         """Two short teal bars across the line, just before the name."""
-        length = self._path.length()
-        at_length = max(0.0, length / 2 - self._label_rect.width() / 2 - 12)
+        length = self._length_to(self.midpoint())
+        at_length = max(0.0, length - self._label_rect.width() / 2 - 12)
         percent = self._path.percentAtLength(at_length)
         centre = self._path.pointAtPercent(percent)
         angle = self._path.angleAtPercent(percent)

@@ -90,7 +90,11 @@ def _image(pages: ReportPages, index: int, scale: float) -> QImage:
 
 def report_for_command_line(case: Any, source: str) -> bytes:
     """``model.cli``'s report writer: the PDF, with an off-screen Qt application made
-    here when there is none (no display is needed)."""
+    here when there is none (no display is needed). A case written without positions
+    is laid out first, as the window would open it."""
+    from gui.diagram.editor import lay_out_if_unplaced
+
+    lay_out_if_unplaced(case.flowsheet)
     if QApplication.instance() is None:
         os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
         report_for_command_line.application = QApplication([])  # kept alive while we paint

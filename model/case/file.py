@@ -89,6 +89,7 @@ def _stream_to_dict(stream: Stream) -> dict[str, Any]:
         "preferred_tear": stream.preferred_tear,
         "estimate": None if stream.estimate is None else stream.estimate.to_dict(),
         "number": stream.number,
+        **({"bends": [[x, y] for x, y in stream.bends]} if stream.bends else {}),
     }
 
 

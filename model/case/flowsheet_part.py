@@ -22,7 +22,7 @@ from model.flowsheet.kinds import BLOCK_KINDS
 from model.flowsheet.spec_values import ComponentAmounts, StreamEstimate
 
 BLOCK_KEYS = ("kind", "name", "position", "specs")
-STREAM_KEYS = ("name", "from", "to", "preferred_tear", "estimate", "number")
+STREAM_KEYS = ("name", "from", "to", "preferred_tear", "estimate", "number", "bends")
 ESTIMATE_KEYS = ("flows_mol_s", "T_K", "P_Pa")
 
 
@@ -216,11 +216,20 @@ def _read_stream(problems: Problems, path: str, item: Any, flowsheet: Flowsheet)
     preferred = problems.boolean(join(path, "preferred_tear"), data.get("preferred_tear", False))
     estimate = _read_estimate(problems, join(path, "estimate"), data.get("estimate"), flowsheet)
     number = _read_stream_number(problems, join(path, "number"), data.get("number"))
+    bends = _read_bends(problems, join(path, "bends"), data.get("bends", []))
     if len(problems) != count or name is None or source is None or target is None:
         return None
     stream = Stream(name, source[0], source[1], target[0], target[1], bool(preferred), estimate)
     stream.number = number
+    stream.bends = bends
     return stream
+
+
+def _read_bends(problems: Problems, path: str, value: Any) -> tuple[tuple[float, float], ...]:
+    """The optional bend points of a stream's line on the diagram: a list of [x, y]."""
+    items = problems.array(path, value) or []
+    points = [_read_position(problems, join(path, index), item) for index, item in enumerate(items)]
+    return tuple(point for point in points if point is not None)
 
 
 def _read_stream_number(problems: Problems, path: str, value: Any) -> int | None:

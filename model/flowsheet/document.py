@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import itertools
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -45,7 +46,8 @@ class Stream:
     ``number`` is the stream's short number on the diagram and in the stream table
     header (an H&MB's stream number); the flowsheet gives one when the stream is first
     inserted and the stream keeps it for good (undo, save and reopen), so numbers stay
-    stable while the user's names stay free text.
+    stable while the user's names stay free text. ``bends`` are the user's bend points
+    on the diagram, in order from source to target (the route passes through each).
     """
 
     name: str
@@ -56,6 +58,7 @@ class Stream:
     preferred_tear: bool = False
     estimate: StreamEstimate | None = None
     number: int | None = None
+    bends: tuple[tuple[float, float], ...] = ()
 
 
 class Flowsheet:
@@ -74,6 +77,7 @@ class Flowsheet:
     stream_removed = Signal(object)
     stream_renamed = Signal(object, str)  # stream, old name
     stream_changed = Signal(object)  # preferred tear or estimate
+    stream_bends_changed = Signal(object)  # the drawing only: results stay current
     components_changed = Signal()
     structure_changed = Signal()  # any block or stream added, removed or renamed
 
@@ -369,6 +373,16 @@ class Flowsheet:
         if stream.estimate != estimate:
             stream.estimate = estimate
             self.stream_changed.emit(stream)
+
+    def set_stream_bends(self, name: str, bends: Sequence[tuple[float, float]]) -> None:
+        """Set the user's bend points of a stream's line (finite x, y pairs)."""
+        stream = self.stream(name)
+        points = tuple((float(x), float(y)) for x, y in bends)
+        if not all(math.isfinite(v) for point in points for v in point):
+            raise InputError(f"{name}.bends", list(bends), "points of two finite numbers")
+        if points != stream.bends:
+            stream.bends = points
+            self.stream_bends_changed.emit(stream)
 
     def stream(self, name: str) -> Stream:
         try:
