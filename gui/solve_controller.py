@@ -1,6 +1,8 @@
 """Runs a flowsheet solve in a worker thread and reports its progress as queued signals.
 
-The solve (``model.solve.driver.solve_flowsheet``) never touches Qt: its per-iteration callback
+The solve (``model.solve.targets.solve_with_targets``: the recycle solve of
+``model.solve.driver.solve_flowsheet``, in an outer loop when the case has targets)
+never touches Qt: its per-iteration callback
 emits a signal of the worker object, which lives in the worker thread, so the record
 reaches the window through Qt's queued connection and the window stays responsive. Stop
 asks the live settings to stop; the solve honours it at its next iteration and returns
@@ -23,9 +25,9 @@ from convergence import SolverSettings
 def _default_solve(
     flowsheet: Any, method: str, settings: SolverSettings, callback: Callable[[Any], bool | None]
 ) -> Any:
-    from model.solve.driver import solve_flowsheet
+    from model.solve.targets import solve_with_targets
 
-    return solve_flowsheet(flowsheet, method, settings, callback)
+    return solve_with_targets(flowsheet, method, settings, callback)
 
 
 class _SolveWorker(QObject):

@@ -46,6 +46,7 @@ from model.report.report_order import ReportOrder
 from model.report.text import solution_report, solution_summary
 from model.report.xlsx import workbook_bytes
 from model.solve.second_opinion_solve import AGREEMENT_TOLERANCE, SecondOpinion, second_opinion
+from model.solve.targets import adjusted_flowsheet
 from model.study.sweep_command import add_sweep_parser, run_sweep_command
 from units_of_measure import UNIT_SYSTEMS
 
@@ -174,7 +175,8 @@ def main(argv: list[str] | None = None, report_writer: ReportWriter | None = Non
     if args.command == "solve":
         opinion = None
         if args.second_opinion:
-            opinion = second_opinion(case.flowsheet, solution, args.agreement_tolerance)
+            checked = adjusted_flowsheet(case.flowsheet, solution)  # targets' values in place
+            opinion = second_opinion(checked, solution, args.agreement_tolerance)
         try:
             _print_solution(case, args.json, opinion)
         except BrokenPipeError:  # the reader (e.g. ``head``) stopped early: not an error

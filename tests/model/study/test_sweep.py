@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import csv
 import io
+import json
 from pathlib import Path
 
 import pytest
@@ -18,6 +19,13 @@ from tests.model.solve.ammonia_closed_form import example_loop
 
 EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_synthesis_loop.loop.json"
 ARGON = "Recycle gas.mole_fraction[argon]"
+
+
+def _without_targets() -> str:
+    """The example's text without its target (which adjusts the purge these sweeps vary)."""
+    data = json.loads(EXAMPLE.read_text("utf-8"))
+    data["targets"] = []
+    return json.dumps(data)
 
 
 def _plan(*vary: str, records=(ARGON, "Recycle gas.total_flow")) -> SweepPlan:
@@ -54,7 +62,7 @@ def test_bad_syntax_names_the_token(text, token):
 
 
 def test_recorded_argon_matches_the_closed_form_at_every_point():
-    text = EXAMPLE.read_text("utf-8")
+    text = _without_targets()
     loop = example_loop(load_case(EXAMPLE))
     result = run_sweep(text, _plan("Purge splitter.fractions[out2]=0.005:0.05:10"), workers=1)
     assert result.complete and not result.not_converged
@@ -64,7 +72,7 @@ def test_recorded_argon_matches_the_closed_form_at_every_point():
 
 
 def test_a_warm_started_neighbour_needs_fewer_passes_than_a_cold_first_point():
-    text = EXAMPLE.read_text("utf-8")
+    text = _without_targets()
     result = run_sweep(text, _plan("Purge splitter.fractions[out2]=0.02:0.021:5"), workers=1)
     first, *rest = result.points
     assert all(point.passes < first.passes for point in rest)
@@ -78,7 +86,7 @@ def _grid():
 
 
 def test_one_worker_and_two_workers_give_identical_results():
-    text = EXAMPLE.read_text("utf-8")
+    text = _without_targets()
     serial = run_sweep(text, _grid(), workers=1)
     pooled = run_sweep(text, _grid(), workers=2)
     assert serial.points == pooled.points
@@ -88,7 +96,7 @@ def test_one_worker_and_two_workers_give_identical_results():
 
 def test_a_dask_local_cluster_gives_identical_results():
     distributed = pytest.importorskip("distributed")
-    text = EXAMPLE.read_text("utf-8")
+    text = _without_targets()
     serial = run_sweep(text, _grid(), workers=1)
     with (
         distributed.LocalCluster(processes=False, n_workers=2, dashboard_address=None) as cluster,
@@ -99,7 +107,7 @@ def test_a_dask_local_cluster_gives_identical_results():
 
 
 def test_a_stop_returns_the_points_solved_so_far():
-    text = EXAMPLE.read_text("utf-8")
+    text = _without_targets()
     seen = []
     result = run_sweep(
         text,
@@ -111,12 +119,19 @@ def test_a_stop_returns_the_points_solved_so_far():
     assert len(result.points) == 5 == len(seen)
 
 
-def test_sweep_command_writes_csv_and_exits_0_when_all_converge(tmp_path, capsys):
+@pytest.fixture
+def plain_case(tmp_path) -> str:
+    path = tmp_path / "no targets.loop.json"
+    path.write_text(_without_targets(), encoding="utf-8")
+    return str(path)
+
+
+def test_sweep_command_writes_csv_and_exits_0_when_all_converge(tmp_path, plain_case, capsys):
     out = tmp_path / "sweep.csv"
     status = main(
         [
             "sweep",
-            str(EXAMPLE),
+            plain_case,
             "--vary",
             "Purge splitter.fractions[out2]=0.01,0.02",
             "--record",
@@ -135,12 +150,12 @@ def test_sweep_command_writes_csv_and_exits_0_when_all_converge(tmp_path, capsys
     assert ARGON in capsys.readouterr().out
 
 
-def test_sweep_command_exits_1_and_lists_the_points_that_did_not_converge(capsys):
+def test_sweep_command_exits_1_and_lists_the_points_that_did_not_converge(plain_case, capsys):
     # no purge: the argon fed cannot leave, so that point cannot converge
     status = main(
         [
             "sweep",
-            str(EXAMPLE),
+            plain_case,
             "--vary",
             "Purge splitter.fractions[out2]=0,0.02",
             "--record",
@@ -164,6 +179,21 @@ def test_sweep_command_exits_1_and_lists_the_points_that_did_not_converge(capsys
         (["--vary", "Purge splitter.fractions[out2]=0.01", "--record", "Purge.size"], "Purge"),
     ],
 )
-def test_sweep_command_exits_2_on_bad_input(arguments, words, capsys):
-    assert main(["sweep", str(EXAMPLE), *arguments, "--workers", "1"]) == 2
+def test_sweep_command_exits_2_on_bad_input(arguments, words, plain_case, capsys):
+    assert main(["sweep", plain_case, *arguments, "--workers", "1"]) == 2
     assert words in capsys.readouterr().err
+
+
+def test_a_spec_the_cases_target_adjusts_cannot_be_swept(capsys):
+    arguments = ["--vary", "Purge splitter.fractions[out2]=0.01,0.02", "--record", ARGON]
+    assert main(["sweep", str(EXAMPLE), *arguments]) == 2
+    assert "a spec that no target of the case adjusts" in capsys.readouterr().err
+
+
+def test_a_sweep_of_conversion_keeps_the_examples_target_met_at_every_point():
+    text = EXAMPLE.read_text("utf-8")
+    plan = _plan("Converter.reactions[1].conversion=0.15:0.35:3")
+    result = run_sweep(text, plan, workers=1)
+    assert not result.not_converged
+    # the target holds argon in the recycle gas at 8 mol % (its tolerance 1e-7 relative)
+    assert all(point.recorded[0] == pytest.approx(0.08, rel=2e-7) for point in result.points)
