@@ -16,14 +16,10 @@ EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_synthesis_
 
 
 def _argon_target() -> Target:
-    return Target(
-        parse_spec_address("Purge splitter.fractions[out2]"),
-        0.005,
-        0.2,
-        "",
-        parse_result_address("Recycle gas.mole_fraction[argon]"),
-        TypedQuantity(8.0, "%"),
-    )
+    """The ammonia example's own target (purge fraction for 8 mol % argon)."""
+    (target,) = load_case(EXAMPLE).flowsheet.targets
+    assert str(target.adjusted) == "Purge splitter.fractions[out2]"
+    return target
 
 
 def _data() -> dict:
@@ -59,9 +55,10 @@ def test_a_version_1_file_opens_with_no_targets_and_saves_as_version_2(tmp_path:
     assert json.loads(case_to_json(case))["version"] == 2
 
 
-def test_a_version_1_file_with_targets_is_refused_at_its_version():
-    """Version 1 had no targets: a "targets" key there is not written by us; it is
-    still read (the migration keeps what it does not recognise and the checks run)."""
+def test_a_version_1_file_with_a_targets_key_keeps_it():
+    """Version 1 had no targets, so we never wrote the key there; a file that has it
+    anyway keeps it (the migration adds the key only where it is missing, then the
+    checks read it like any version-2 file)."""
     data = _data()
     data["version"] = 1
     data["targets"] = [_argon_target().to_dict()]
