@@ -16,6 +16,7 @@ from model.case.document import Case
 from model.case.file import case_to_json
 from model.flowsheet.document import Flowsheet
 from model.flowsheet.spec_values import ComponentAmounts, Reaction, StreamEstimate, TypedQuantity
+from model.flowsheet.target_definition import Target, parse_result_address, parse_spec_address
 from model.properties.components import lookup_component
 
 EXAMPLES_FOLDER = Path(__file__).resolve().parent
@@ -119,6 +120,18 @@ def ammonia_synthesis_loop() -> Case:
     _connect(sheet, "Loop gas", "Ammonia separator.out2", "Purge splitter.in")
     _connect(sheet, "Recycle gas", "Purge splitter.out1", "Loop mixer.in2")
     _connect(sheet, "Purge", "Purge splitter.out2", "Purge gas.in")
+    sheet.set_targets(
+        [
+            Target(
+                parse_spec_address("Purge splitter.fractions[out2]"),
+                0.005,
+                0.2,
+                "",
+                parse_result_address("Recycle gas.mole_fraction[argon]"),
+                TypedQuantity(8.0, "%"),
+            )
+        ]
+    )
     return Case(
         sheet,
         SolverSettings(),
@@ -126,7 +139,9 @@ def ammonia_synthesis_loop() -> Case:
         notes=INVENTED + " 300 kmol/h of 3:1 hydrogen/nitrogen make-up gas with 0.5 % argon "
         "at 150 barg; 25 % nitrogen conversion per pass; the loop is cooled to -10 degC, "
         "95 % of the ammonia condenses, and 2 % of the loop gas is purged so that argon "
-        "does not build up without limit. The argon loop's slope is about 0.98: with fixed "
+        "does not build up without limit. A target adjusts that purge fraction (between "
+        "0.5 % and 20 %) until argon in the recycle gas is 8 mol % (about 2.03 %). The "
+        "argon loop's slope is about 0.98: with fixed "
         "q bounds [-5, 0] it crawls (about 120 iterations); the default adaptive bounds let "
         "the run widen q_min itself, and it converges in about 6.",
     )

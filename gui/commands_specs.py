@@ -186,3 +186,19 @@ def push_spec_change(
         return None
     undo_stack.push(SetSpecCommand(flowsheet, block_name, field, normalised))
     return None
+
+
+class SetTargetsCommand(QUndoCommand):
+    """Replace the flowsheet's targets; undo restores the previous list."""
+
+    def __init__(self, flowsheet: Flowsheet, targets: list) -> None:
+        super().__init__("Edit targets")
+        self._flowsheet = flowsheet
+        self._targets = list(targets)
+        self._old_targets = list(flowsheet.targets)
+
+    def redo(self) -> None:
+        self._flowsheet.set_targets(self._targets)
+
+    def undo(self) -> None:
+        self._flowsheet.set_targets(self._old_targets)

@@ -1,17 +1,17 @@
 """The ``loopwright`` command: the window, or the headless sub-commands.
 
-``loopwright`` and ``loopwright CASE`` open the window; ``loopwright solve ...`` and
-``loopwright export ...`` run headless from ``model.cli`` without loading Qt, except
-that ``export --report`` draws the diagram with an off-screen Qt application
-(``gui.report``), handed to ``model.cli`` as its report writer. The dispatch lives in
-``gui`` because only ``gui`` may import both layers.
+``loopwright`` and ``loopwright CASE`` open the window; ``loopwright solve ...``,
+``loopwright export ...`` and ``loopwright sweep ...`` run headless from ``model.cli``
+without loading Qt, except that ``export --report`` draws the diagram with an
+off-screen Qt application (``gui.report``), handed to ``model.cli`` as its report
+writer. The dispatch lives in ``gui`` because only ``gui`` may import both layers.
 """
 
 from __future__ import annotations
 
 import sys
 
-HEADLESS_COMMANDS = ("solve", "export")
+HEADLESS_COMMANDS = ("solve", "export", "sweep")
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -27,7 +27,9 @@ def main(argv: list[str] | None = None) -> int:
             "       loopwright solve CASE [--units SYSTEM] [--method NAME] "
             "[--q-min Q] [--q-max Q] [--json]\n"
             "       loopwright export CASE [--csv FILE] [--xlsx FILE] [--report FILE] "
-            "[--units SYSTEM]"
+            "[--units SYSTEM]\n"
+            '       loopwright sweep CASE --vary "SPEC=START:STOP:N" [--vary ...] '
+            '--record "RESULT" [--record ...] [--csv OUT] [--workers N] [--dask ADDRESS]'
         )
         return 0
     from gui.app import run_app

@@ -115,6 +115,7 @@ class MainWindow(WindowSolveMixin, QMainWindow):
         solution = self.case.solution
         self._monitor.bind_settings(self.case.settings)
         self._monitor.show_history(solution.convergence if solution is not None else None)
+        self._monitor.show_targets(getattr(solution, "targets", None))
 
     # ---- layout and wiring ---------------------------------------------------------------
     def _dock(self, title: str, name: str, widget: QWidget, area) -> QDockWidget:
@@ -219,6 +220,7 @@ class MainWindow(WindowSolveMixin, QMainWindow):
             flowsheet.block_specs_changed,
             flowsheet.components_changed,
             flowsheet.stream_changed,
+            flowsheet.targets_changed,
         ]
 
     def _model_edited(self, *_args) -> None:

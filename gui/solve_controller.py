@@ -1,13 +1,15 @@
 """Runs a flowsheet solve in a worker thread and reports its progress as queued signals.
 
-The solve (``model.solve.driver.solve_flowsheet``) never touches Qt: its per-iteration callback
-hands the record to the worker object, which lives in the worker thread, and the records
-reach the window through Qt's queued connection. They are coalesced: at most one notice
-is queued at a time and the window takes every record that arrived since, so a fast
-solve (thousands of iterations a second) cannot flood the event loop. Each queued event
-makes the window's thread wait for the solve thread to let go of the interpreter lock
-(up to ``sys.getswitchinterval()``, 5 ms), so one event a record starved the window's
-own timers and paints. Stop
+The solve (``model.solve.targets.solve_with_targets``: the recycle solve of
+``model.solve.driver.solve_flowsheet``, in an outer loop when the case has targets)
+never touches Qt: its per-iteration callback hands the record to the worker object,
+which lives in the worker thread, and the records reach the window through Qt's queued
+connection. They are coalesced: at most one notice is queued at a time and the window
+takes every record that arrived since, so a fast solve (thousands of iterations a
+second) cannot flood the event loop. Each queued event makes the window's thread wait
+for the solve thread to let go of the interpreter lock (up to
+``sys.getswitchinterval()``, 5 ms), so one event a record starved the window's own
+timers and paints. Stop
 asks the live settings to stop; the solve honours it at its next iteration and returns
 a solution with status "stopped".
 """
@@ -29,9 +31,9 @@ from convergence import SolverSettings
 def _default_solve(
     flowsheet: Any, method: str, settings: SolverSettings, callback: Callable[[Any], bool | None]
 ) -> Any:
-    from model.solve.driver import solve_flowsheet
+    from model.solve.targets import solve_with_targets
 
-    return solve_flowsheet(flowsheet, method, settings, callback)
+    return solve_with_targets(flowsheet, method, settings, callback)
 
 
 class _SolveWorker(QObject):

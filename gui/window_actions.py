@@ -151,6 +151,25 @@ def build_actions(window: ActionHost) -> WindowActions:
         None,
         "Check the solution by solving every stream at once, without tear streams",
     )
+    _action(
+        window,
+        a,
+        "targets",
+        "&Targets…",
+        window.edit_targets,
+        None,
+        "Targets: adjust a spec until a result has the value wanted",
+    )
+    _action(
+        window,
+        a,
+        "use_target_values",
+        "&Use Target Values in the Specs",
+        window.use_adjusted_values,
+        None,
+        "Write each met target's adjusted value into its spec (undoable)",
+    )
+    _action(window, a, "sweep", "S&weep…", window.show_sweep, None, "Sweep one or two specs")
     _action(window, a, "about", "&About Loopwright", window.show_about)
     _action(window, a, "clear_recent", "Clear Recent Files", files.clear_recent)
     a["stop"].setEnabled(False)
@@ -216,6 +235,8 @@ def _build_menus(window: ActionHost, result: WindowActions) -> None:
     window.panels_menu = view_menu.addMenu("&Panels")
     solve_menu = bar.addMenu("&Solve")
     solve_menu.addActions([a["solve"], a["stop"], a["second_opinion"]])
+    solve_menu.addSeparator()
+    solve_menu.addActions([a["targets"], a["use_target_values"], a["sweep"]])
     solve_menu.addSeparator()
     method_menu = solve_menu.addMenu("&Method")
     method_menu.addActions(result.method_group.actions())

@@ -13,10 +13,22 @@ from typing import Any
 
 from gui.status_line import SOLUTION_STATES, closure_text
 from model.report.report_order import ReportOrder
+from model.report.target_lines import target_lines
 from model.report.text import work_line
 from units_of_measure import format_value
 
-EDIT_ACTIONS = ("new", "open", "copy", "paste", "delete", "rename", "components")
+EDIT_ACTIONS = (
+    "new",
+    "open",
+    "copy",
+    "paste",
+    "delete",
+    "rename",
+    "components",
+    "targets",
+    "use_target_values",
+    "sweep",
+)
 
 
 def _second_opinion_solve(solution: Any):
@@ -25,8 +37,10 @@ def _second_opinion_solve(solution: Any):
 
     def solve(flowsheet, _method, _settings, _callback):
         from model.solve.second_opinion_solve import second_opinion
+        from model.solve.targets import adjusted_flowsheet
 
-        return second_opinion(flowsheet, compare_with=solution)
+        # a targets solution is checked with the targets' adjusted values in place
+        return second_opinion(adjusted_flowsheet(flowsheet, solution), compare_with=solution)
 
     return solve
 
@@ -86,8 +100,12 @@ class WindowSolveMixin:
 
     def _solve_progress(self, records: list) -> None:
         """Records that arrived since the last batch: the log names each part as the solve
-        reaches it, the status bar and the recycle monitor show the newest."""
+        reaches it, the status bar and the recycle monitor show the newest. A record with
+        ``adjusted`` is an outer iteration of the targets loop (the monitor's third plot)."""
         for record in records:
+            if hasattr(record, "adjusted"):
+                self.monitor.add_target_record(record)
+                continue
             part = getattr(record, "part", "")
             if part.endswith(" of 1"):  # one strongly connected part: nothing to tell apart
                 part = ""
@@ -98,6 +116,10 @@ class WindowSolveMixin:
             self.monitor.add_record(record)
         if records:
             last = records[-1]
+            if hasattr(last, "adjusted"):
+                worst = max((abs(r) for r in last.residuals.values()), default=0.0)
+                self.status.set_progress(last.iteration, worst, "targets")
+                return
             residual = max(last.residuals.values()) if last.residuals else None
             part = getattr(last, "part", "")
             self.status.set_progress(
@@ -108,11 +130,14 @@ class WindowSolveMixin:
         self.case.solution = solution
         self._set_editing(True)
         self.monitor.end_run(solution.convergence, solution.block_evaluations)
+        self.monitor.show_targets(solution.targets)
         self._show_results(solution, current=True)
         self.log.set_issues(solution.issues)
         severity = "info" if solution.converged else "warning"
         self.log.add_message(severity, f"Solve {solution.status}: {solution.message}")
         self.log.add_message("info", work_line(solution))
+        for line in target_lines(solution):
+            self.log.add_message("info" if solution.converged else "warning", line)
         if solution.balance is not None:
             for line in solution.balance.lines():
                 self.log.add_message("info" if solution.balance.closes else "warning", line)
@@ -124,6 +149,71 @@ class WindowSolveMixin:
         self.log.add_message("error", f"The solve failed: {message}")
         self.result_tabs.setCurrentWidget(self.log)
         self.scene.set_results(self.case.solution, self.results_current)
+
+    # ---- targets -----------------------------------------------------------------------
+    def edit_targets(self) -> bool:
+        """Solve → Targets…: edit the targets in a dialog; OK is one undo step."""
+        from gui.commands_specs import SetTargetsCommand
+        from gui.targets_dialog import TargetsDialog
+
+        if self.is_busy():
+            return False
+        solution = self.case.solution if self.results_current else None
+        dialog = TargetsDialog(self.case.flowsheet, getattr(solution, "targets", None), self)
+        self.targets_dialog = dialog
+        if dialog.exec() != dialog.DialogCode.Accepted:
+            return False
+        if dialog.targets() != self.case.flowsheet.targets:
+            self.undo_stack.push(SetTargetsCommand(self.case.flowsheet, dialog.targets()))
+        return True
+
+    def use_adjusted_values(self) -> int:
+        """Solve → Use Target Values: write each met target's adjusted value into its
+        spec (one undo step); the number of specs changed."""
+        from gui.commands_specs import SetSpecCommand
+        from model.errors import LoopwrightError
+        from model.flowsheet.spec_numbers import with_spec_number
+
+        outcome = getattr(self.case.solution, "targets", None)
+        if self.is_busy() or outcome is None:
+            return 0
+        commands = []
+        for result in outcome.results:
+            if not result.met:
+                continue
+            address = result.target.adjusted
+            try:
+                value = with_spec_number(
+                    self.case.flowsheet, address, result.adjusted, result.target.unit
+                )
+            except LoopwrightError as error:
+                self.log.add_message("warning", f"{address}: {error}")
+                continue
+            commands.append(
+                SetSpecCommand(self.case.flowsheet, address.block, address.field, value)
+            )
+        if commands:
+            self.undo_stack.beginMacro("Use target values")
+            for command in commands:
+                self.undo_stack.push(command)
+            self.undo_stack.endMacro()
+            self.log.add_message(
+                "info", f"{len(commands)} spec(s) set to the targets' adjusted values"
+            )
+        return len(commands)
+
+    def show_sweep(self):
+        """Solve → Sweep…: the sweep dialog for the case as it stands now."""
+        import dataclasses
+
+        from gui.sweep_dialog import SweepDialog
+        from model.case.file import case_to_json
+
+        case = dataclasses.replace(self.case, solution=None)
+        dialog = SweepDialog(self.case, case_to_json(case), self)
+        self.sweep_dialog = dialog
+        dialog.show()
+        return dialog
 
     # ---- second opinion --------------------------------------------------------------------
     def start_second_opinion(self) -> bool:

@@ -3,5 +3,5 @@ reports and case files (no Qt).
 
 Subpackages, each standing above the ones before it (import-linter keeps the order):
 ``properties`` → ``flowsheet`` → ``validation`` and ``blocks`` → ``solve`` → ``report``
-and ``case`` → ``cli``. ``model.errors`` is below them all.
+and ``case`` → ``study`` (sweeps) → ``cli``. ``model.errors`` is below them all.
 """

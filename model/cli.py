@@ -1,4 +1,4 @@
-"""The headless commands ``loopwright solve`` and ``loopwright export``.
+"""The headless commands ``loopwright solve``, ``loopwright export`` and ``loopwright sweep``.
 
 ``solve CASE`` loads a case file, solves it and prints the convergence summary, the
 stream table and block duties in the chosen unit system, the balance closures and the
@@ -8,7 +8,10 @@ prints the largest relative difference from the sequential answer (in JSON:
 ``"second_opinion": {"agrees", "largest_relative_difference", "message"}``).
 ``--stop-on`` chooses the stopping rule ("estimated error" or "residual") and
 ``--fixed-bounds`` keeps q within the given bounds (no adaptive widening); see
-:class:`convergence.SolverSettings`.
+:class:`convergence.SolverSettings`. A case with targets is solved with them met
+(:mod:`model.solve.targets`; ``--no-targets`` leaves them aside) and the report lists
+each target's adjusted value, measured value and outer iterations (JSON: ``"targets"``).
+``sweep`` is :mod:`model.study.sweep_command`.
 ``export CASE --csv FILE --xlsx FILE --report FILE`` solves the case and writes any of:
 a CSV file (cautions, stream table, block results, closures), a spreadsheet
 (:mod:`model.report.xlsx`) and the printable report. The report draws the diagram with
@@ -43,6 +46,8 @@ from model.report.report_order import ReportOrder
 from model.report.text import solution_report, solution_summary
 from model.report.xlsx import workbook_bytes
 from model.solve.second_opinion_solve import AGREEMENT_TOLERANCE, SecondOpinion, second_opinion
+from model.solve.targets import adjusted_flowsheet
+from model.study.sweep_command import add_sweep_parser, run_sweep_command
 from units_of_measure import UNIT_SYSTEMS
 
 EXIT_CONVERGED = 0
@@ -82,6 +87,12 @@ def build_parser() -> argparse.ArgumentParser:
     )
     solve.add_argument("--json", action="store_true", help="print one JSON object")
     solve.add_argument(
+        "--no-targets",
+        action="store_true",
+        dest="no_targets",
+        help="solve with the specs as they stand, leaving the case's targets aside",
+    )
+    solve.add_argument(
         "--second-opinion",
         action="store_true",
         dest="second_opinion",
@@ -108,6 +119,7 @@ def build_parser() -> argparse.ArgumentParser:
     export.add_argument(
         "--report", metavar="FILE", help="printable report (PDF) with the diagram and tables"
     )
+    add_sweep_parser(commands)
     return parser
 
 
@@ -145,6 +157,8 @@ def main(argv: list[str] | None = None, report_writer: ReportWriter | None = Non
         args = parser.parse_args(sys.argv[1:] if argv is None else argv)
     except SystemExit as stop:  # argparse has printed the usage and the problem
         return EXIT_BAD_INPUT if stop.code not in (0, None) else 0
+    if args.command == "sweep":
+        return run_sweep_command(args)
     refusal = _export_refusal(args, report_writer)
     if refusal:
         print(f"loopwright export: {refusal}", file=sys.stderr)
@@ -161,7 +175,8 @@ def main(argv: list[str] | None = None, report_writer: ReportWriter | None = Non
     if args.command == "solve":
         opinion = None
         if args.second_opinion:
-            opinion = second_opinion(case.flowsheet, solution, args.agreement_tolerance)
+            checked = adjusted_flowsheet(case.flowsheet, solution)  # targets' values in place
+            opinion = second_opinion(checked, solution, args.agreement_tolerance)
         try:
             _print_solution(case, args.json, opinion)
         except BrokenPipeError:  # the reader (e.g. ``head``) stopped early: not an error
@@ -195,6 +210,8 @@ def _prepared_case(args: argparse.Namespace) -> Case:
         changes["adaptive_bounds"] = False
     if changes:
         case.settings.update(**changes)
+    if getattr(args, "no_targets", False):
+        case.flowsheet.targets = []
     return case
 
 

@@ -60,10 +60,10 @@ def test_no_module_imports_one_that_imports_it_back() -> None:
 
 def test_the_import_graph_sees_lazy_and_typing_imports() -> None:
     # the graph the circle check relies on: a function-level import (the window's solve
-    # controller imports the driver when a solve starts), a submodule imported by name
+    # controller imports the targets' solve when a solve starts), a submodule imported by name
     # from its package, and an ordinary import
     graph = import_graph(ROOT)
-    assert graph.has_edge("gui.solve_controller", "model.solve.driver")
+    assert graph.has_edge("gui.solve_controller", "model.solve.targets")
     assert graph.has_edge("model.flowsheet.spec_checks", "model.flowsheet.value_checks")
     assert graph.has_edge("gui.files", "gui.window_host")
 

@@ -27,6 +27,7 @@ from convergence import (
 
 from .controls import LiveControls
 from .plots import ConvergencePlots
+from .target_plot import TargetPlot
 
 #: Least time between two redraws while records stream in, ms.
 REDRAW_INTERVAL_MS = 50
@@ -77,6 +78,7 @@ class RecycleMonitor(QWidget):
     def __init__(self, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self.plots = ConvergencePlots()
+        self.target_plot = TargetPlot()
         self.controls = LiveControls()
         self.status_label = QLabel("No run yet.")
         self.status_label.setWordWrap(True)
@@ -114,10 +116,12 @@ class RecycleMonitor(QWidget):
         splitter = QSplitter()
         splitter.addWidget(self.plots.residual_plot)
         splitter.addWidget(self.plots.q_plot)
+        splitter.addWidget(self.target_plot.plot)
         splitter.addWidget(side)
         splitter.setStretchFactor(0, 3)
         splitter.setStretchFactor(1, 3)
         splitter.setStretchFactor(2, 2)
+        splitter.setStretchFactor(3, 2)
         layout = QVBoxLayout(self)
         layout.setContentsMargins(2, 2, 2, 2)
         layout.addWidget(splitter)
@@ -134,6 +138,7 @@ class RecycleMonitor(QWidget):
         """Forget the previous run's curves, markers and diagnosis."""
         self._timer.stop()
         self.plots.clear()
+        self.target_plot.clear()
         self._records = []
         self._previous = None
         self._run_text = ""
@@ -142,8 +147,31 @@ class RecycleMonitor(QWidget):
         self._set_suggestion(None)
 
     @Slot(object)
+    def add_target_record(self, record: Any) -> None:
+        """Take one outer iteration of the targets loop (``TargetIterationRecord``)."""
+        self.target_plot.append(record)
+
+    def show_targets(self, outcome: Any) -> None:
+        """Draw a finished (or stored) targets run's history; None draws nothing."""
+        self.target_plot.clear()
+        if outcome is None:
+            return
+        for result in outcome.results[:1]:
+            self.target_plot.set_tolerance(result.target.tolerance)
+        for record in outcome.history:
+            self.target_plot.append(record)
+
+    @Slot(object)
     def add_record(self, record: Any) -> None:
-        """Take one IterationRecord; curves are redrawn at most every 50 ms."""
+        """Take one IterationRecord; curves are redrawn at most every 50 ms.
+
+        With targets, every outer iteration is a new recycle solve, whose iterations
+        count from 1 again: the tear plots then show that latest solve."""
+        if self._records and record.iteration < self._records[-1].iteration:
+            self._timer.stop()
+            self.plots.clear()
+            self._records = []
+            self._previous = None
         self._records.append(record)
         self.plots.append(record)
         if self._previous is not None and record.settings_version != self._previous.version:

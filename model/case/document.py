@@ -46,8 +46,9 @@ class Case:
     title: str = ""
     notes: str = ""
 
-    def solve(self, callback: Any = None) -> Any:
-        """Solve the flowsheet with the case's method and settings; keep and return the solution.
+    def solve(self, callback: Any = None, start_tears: Any = None) -> Any:
+        """Solve the flowsheet with the case's method and settings, its targets met
+        (:func:`model.solve.targets.solve_with_targets`); keep and return the solution.
 
         Examples
         --------
@@ -56,7 +57,9 @@ class Case:
         >>> case.solve().converged  # doctest: +SKIP
         True
         """
-        from model.solve.driver import solve_flowsheet
+        from model.solve.targets import solve_with_targets
 
-        self.solution = solve_flowsheet(self.flowsheet, self.method, self.settings, callback)
+        self.solution = solve_with_targets(
+            self.flowsheet, self.method, self.settings, callback, start_tears
+        )
         return self.solution

@@ -23,8 +23,9 @@ from model.case.document import DEFAULT_METHOD, DEFAULT_UNIT_SYSTEM, Case
 from model.case.flowsheet_part import read_flowsheet
 from model.case.migrate import CURRENT_VERSION, OLDEST_VERSION, migrate
 from model.case.results_part import read_results
-from model.case.schema import Problems, join, json_object_hook
+from model.case.schema import MISSING, Problems, join, json_object_hook
 from model.case.specs import spec_to_json
+from model.case.targets_part import read_targets, targets_to_json
 from model.errors import CaseFileError, CaseProblem
 from model.flowsheet.document import Block, Flowsheet, Stream
 from model.limits import NOTES_LENGTH_LIMIT, TITLE_LENGTH_LIMIT
@@ -48,6 +49,7 @@ TOP_KEYS = (
     "blocks",
     "streams",
     "results",
+    "targets",  # version 2 on (model/case/targets_part.py)
 )
 
 
@@ -66,6 +68,7 @@ def case_to_dict(case: Case) -> dict[str, Any]:
         "components": [component.to_dict() for component in flowsheet.components],
         "blocks": [_block_to_dict(block) for block in flowsheet.blocks.values()],
         "streams": [_stream_to_dict(stream) for stream in flowsheet.streams.values()],
+        "targets": targets_to_json(flowsheet.targets),
     }
     if case.solution is not None:
         data["results"] = case.solution.to_dict()
@@ -285,6 +288,7 @@ def _case_from_dict(data: Any, source: str) -> Case:
         notes=problems.text("notes", data.get("notes", ""), limit=NOTES_LENGTH_LIMIT) or "",
     )
     read_flowsheet(problems, data, case.flowsheet)
+    case.flowsheet.targets = read_targets(problems, data.get("targets", MISSING))
     if not problems and data.get("results") is not None:
         case.solution = read_results(problems, data["results"], case.flowsheet)
     if problems:

@@ -16,6 +16,10 @@ Version 0 (the pre-release layout) differed from version 1 in this way:
   bare ``{component: fraction}`` object (mole fractions for a feed's composition);
 - streams: ``"from"`` and ``"to"`` as ``[block, port]`` arrays, ``"tear"`` instead of
   ``"preferred_tear"``.
+
+Version 2 added the top-level ``"targets"`` array (``model.case.targets_part``); a
+version-1 file has none, so its migration writes an empty one. Keys that are optional
+and default to the old behaviour when absent need no version step.
 """
 
 from __future__ import annotations
@@ -25,7 +29,7 @@ from typing import Any
 
 from model.flowsheet.kinds import BLOCK_KINDS
 
-CURRENT_VERSION = 1
+CURRENT_VERSION = 2
 
 # Internal unit of each quantity kind, as version 0 stored its bare numbers.
 VERSION_0_UNITS = {
@@ -114,13 +118,32 @@ def migrate_0_to_1(data: dict[str, Any]) -> dict[str, Any]:
     return data
 
 
-MIGRATIONS: dict[int, Callable[[dict[str, Any]], dict[str, Any]]] = {0: migrate_0_to_1}
+def migrate_1_to_2(data: dict[str, Any]) -> dict[str, Any]:
+    """Version 1 to version 2: no targets yet (an empty ``"targets"`` array)."""
+    data = dict(data)
+    data.setdefault("targets", [])
+    data["version"] = 2
+    return data
+
+
+MIGRATIONS: dict[int, Callable[[dict[str, Any]], dict[str, Any]]] = {
+    0: migrate_0_to_1,
+    1: migrate_1_to_2,
+}
 OLDEST_VERSION = min(MIGRATIONS)
 
 
 def migrate(data: dict[str, Any], version: int) -> dict[str, Any]:
-    """Apply the migration steps from ``version`` up to :data:`CURRENT_VERSION`."""
+    """Apply the migration steps from ``version`` up to :data:`CURRENT_VERSION`.
+
+    The top-level object keeps its record of keys the file gave twice
+    (``model.case.schema.JSONObject``), so the checks still report them."""
+    original = data
     while version < CURRENT_VERSION:
         data = MIGRATIONS[version](data)
         version += 1
+    if data is not original and hasattr(original, "duplicate_keys"):
+        migrated = type(original)(data)
+        migrated.duplicate_keys = original.duplicate_keys
+        return migrated
     return data

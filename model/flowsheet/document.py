@@ -11,7 +11,7 @@ from __future__ import annotations
 import itertools
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 from model.errors import InputError
@@ -19,6 +19,7 @@ from model.flowsheet.events import Signal
 from model.flowsheet.kinds import BlockKind, block_kind
 from model.flowsheet.spec_checks import check_spec_value
 from model.flowsheet.spec_values import StreamEstimate
+from model.flowsheet.target_definition import Target
 from model.limits import NAME_LENGTH_LIMIT, check_length
 
 #: Highest numbered port of a mixer's inlets or a splitter's outlets.
@@ -80,11 +81,13 @@ class Flowsheet:
     stream_bends_changed = Signal(object)  # the drawing only: results stay current
     components_changed = Signal()
     structure_changed = Signal()  # any block or stream added, removed or renamed
+    targets_changed = Signal()  # the list of targets replaced
 
     def __init__(self) -> None:
         self.components: list[Any] = []  # model.properties.components.Component, in case order
         self.blocks: dict[str, Block] = {}
         self.streams: dict[str, Stream] = {}
+        self.targets: list[Target] = []  # met by the outer loop (model.solve.targets)
 
     # ---- components -------------------------------------------------------------
     def component_names(self) -> list[str]:
@@ -181,8 +184,31 @@ class Flowsheet:
                 stream.source = new
             if stream.target == old:
                 stream.target = new
+        self._rename_in_targets(old, new, block=True)
         self.block_renamed.emit(block, old)
         self.structure_changed.emit()
+
+    # ---- targets ----------------------------------------------------------------
+    def set_targets(self, targets: list[Target]) -> None:
+        """Replace the targets (checked against the flowsheet only when solved, by
+        :func:`model.validation.target_checks.validate_targets`, so nothing typed is lost)."""
+        targets = list(targets)
+        if any(not isinstance(target, Target) for target in targets):
+            raise InputError("targets", targets, "a list of Target objects")
+        if targets != self.targets:
+            self.targets = targets
+            self.targets_changed.emit()
+
+    def _rename_in_targets(self, old: str, new: str, block: bool) -> None:
+        renamed = []
+        for target in self.targets:
+            adjusted, measured = target.adjusted, target.measured
+            if block and adjusted.block == old:
+                adjusted = replace(adjusted, block=new)
+            if measured.owner == old and (measured.quantity == "duty") == block:
+                measured = replace(measured, owner=new)
+            renamed.append(replace(target, adjusted=adjusted, measured=measured))
+        self.set_targets(renamed)
 
     def move_block(self, name: str, position: tuple[float, float]) -> None:
         block = self.block(name)
@@ -356,6 +382,7 @@ class Flowsheet:
         del self.streams[old]
         stream.name = new
         self.streams[new] = stream
+        self._rename_in_targets(old, new, block=False)
         self.stream_renamed.emit(stream, old)
         self.structure_changed.emit()
 

@@ -13,6 +13,7 @@ from model.report.block_table import WARNING, result_rows
 from model.report.cautions import CAUTIONS
 from model.report.report_order import ReportOrder
 from model.report.table import stream_table, stream_table_text
+from model.report.target_lines import target_lines, targets_summary
 from units_of_measure import format_value
 
 
@@ -115,6 +116,9 @@ def solution_report(
         ["Cautions:", *(f"  {text}" for text in CAUTIONS)],
         ["Convergence:", *(f"  {line}" for line in convergence_lines(solution))],
     ]
+    targets = target_lines(solution)
+    if targets:
+        sections.append(["Targets:", *(f"  {line}" for line in targets)])
     if solution.streams:
         table = stream_table(solution, unit_system, stream_order, stream_numbers)
         sections.append([f"Stream table ({unit_system}):", stream_table_text(table)])
@@ -138,7 +142,8 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``tears`` (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
     ``T_K``, ``P_Pa``, ``phase``, ``enthalpy_flow_W``), ``blocks`` (name -> ``duty_W``
     where the block has one), ``closure`` (relative closures ``mass``, ``elements``,
-    ``energy``) and ``cautions``.
+    ``energy``), ``cautions`` and, when the case has targets, ``targets``
+    (:func:`model.report.target_lines.targets_summary`).
     """
     result = solution.convergence
     components = list(solution.component_names)
@@ -153,6 +158,7 @@ def solution_summary(solution: Any) -> dict[str, Any]:
         for name, state in solution.streams.items()
     }
     balance = solution.balance
+    targets = targets_summary(solution)
     return {
         "status": solution.status,
         "converged": bool(solution.converged),
@@ -192,4 +198,5 @@ def solution_summary(solution: Any) -> dict[str, Any]:
             "energy": float(balance.energy_closure),
         },
         "cautions": list(CAUTIONS),
+        **({} if targets is None else {"targets": targets}),
     }

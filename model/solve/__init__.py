@@ -1,5 +1,6 @@
 """The solve: topology and tears, compiling, the tear problem, the sequential-modular
-driver, the solution with its balance closures, and the second opinion."""
+driver, the solution with its balance closures, the second opinion, and targets met by
+an outer loop."""
 
 from model.lazy import lazy_face
 
@@ -16,5 +17,6 @@ __getattr__, __dir__, __all__ = lazy_face(
         "prepare_tear_problem": "model.solve.tear_problem",
         "second_opinion": "model.solve.second_opinion_solve",
         "solve_flowsheet": "model.solve.driver",
+        "solve_with_targets": "model.solve.targets",
     },
 )

@@ -13,7 +13,8 @@ Steps of :func:`solve_flowsheet`:
 5. A part's tear vector is, for each of its tear streams in turn, its component flows
    (mol/s), T (K) and P (Pa); g(x) is one pass of the part that starts from the tear
    values x and returns the tear streams as recomputed by their source blocks. Start:
-   the user's estimate of a tear where given (by stream name); otherwise one pass with
+   a warm-start state of the tear where given (``start_tears``), else the user's
+   estimate of a tear where given (by stream name); otherwise one pass with
    the tears at zero flow at the feeds' mean T and P, whose recomputed tears are x0.
 6. x = g(x) is solved by :func:`convergence.solve_fixed_point` with the live settings
    (one object for every part). Absolute floors of the scaled residual: flows
@@ -53,11 +54,12 @@ Examples
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 
 from convergence import METHODS, IterationRecord, SolverSettings
 from model.errors import InputError, LoopwrightError
 from model.flowsheet.document import Flowsheet
+from model.properties.stream_state import StreamState
 from model.solve.part_solve import solve_by_parts
 from model.solve.solution import FlowsheetSolution
 from model.solve.tear_problem import prepare_tear_problem
@@ -80,6 +82,7 @@ def solve_flowsheet(
     method: str = "wegstein",
     settings: SolverSettings | None = None,
     callback: Callable[[IterationRecord], bool | None] | None = None,
+    start_tears: Mapping[str, StreamState] | None = None,
 ) -> FlowsheetSolution:
     """Solve the flowsheet's heat and material balance (see the module docstring).
 
@@ -94,6 +97,11 @@ def solve_flowsheet(
         if None.
     callback
         Called after every iteration with its record; returning True stops the solve.
+    start_tears
+        A warm start: tear states by stream name, e.g. ``earlier.streams`` of an earlier
+        solution of a neighbouring case (an outer loop's previous step, a sweep's
+        previous point). A named tear starts there instead of at its estimate or the
+        start pass; names that are not tears are ignored.
 
     Returns
     -------
@@ -113,7 +121,7 @@ def solve_flowsheet(
         return _failed_before_start(flowsheet, issues, error)
     if not tear_problem.tear_streams:
         return tear_problem.final_pass([], True, None, settings.snapshot().tolerance)
-    return solve_by_parts(flowsheet, tear_problem, method, settings, callback)
+    return solve_by_parts(flowsheet, tear_problem, method, settings, callback, start_tears)
 
 
 def _failed_before_start(

@@ -5,7 +5,8 @@
 - blocks outside loops are computed once, when their inlets are known (strictly while
   every part before them converged, leniently after one that did not);
 - each loop part gets its own tear problem (:meth:`TearProblem.for_part`): its start
-  (the user's estimates by stream name, else one pass with zero-flow tears), then
+  (warm-start states by stream name, else the user's estimates, else one pass with
+  zero-flow tears), then
   :func:`convergence.solve_fixed_point` on passes over that part's blocks only, with
   the one live :class:`~convergence.SolverSettings` of the solve (a q-bound change made
   while part 3 runs reaches part 3 at its next iteration, and every part after it), then
@@ -23,12 +24,13 @@ every stream has a value, and the solution reports that part's status.
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 
 from convergence import IterationRecord, SolverSettings, solve_fixed_point
 from convergence.errors import ConvergenceInputError
 from model.errors import CalculationError, LoopwrightError
 from model.flowsheet.document import Flowsheet
+from model.properties.stream_state import StreamState
 from model.solve.held_check import HeldWatch, reject_held_fixed_point
 from model.solve.part_order import SolveStep, solve_steps
 from model.solve.part_results import PartSolution, combine_parts, part_record
@@ -52,8 +54,10 @@ class _PartByPart:
         method: str,
         settings: SolverSettings,
         callback: Callback | None,
+        start_tears: Mapping[str, StreamState] | None = None,
     ) -> None:
         self.flowsheet = flowsheet
+        self.start_tears = start_tears
         self.whole = whole
         self.method = method
         self.settings = settings
@@ -89,7 +93,7 @@ class _PartByPart:
     def _loop_part(self, step: SolveStep) -> None:
         part = self.whole.for_part(self.flowsheet, step.blocks, step.tear_streams)
         self.part_problems.append(part)
-        part.make_start(self.flowsheet)
+        part.make_start(self.flowsheet, self.start_tears)
         if not self.iterating:  # passed once from its start, so its streams have values
             part.runner.run(part.tears.unpack(part.problem.x0), strict=False)
             self._record(step, part, None)
@@ -173,8 +177,11 @@ def solve_by_parts(
     method: str,
     settings: SolverSettings,
     callback: Callback | None = None,
+    start_tears: Mapping[str, StreamState] | None = None,
 ) -> FlowsheetSolution:
     """Converge ``whole``'s flowsheet part by part (see the module docstring).
+
+    ``start_tears`` (stream name to state) warm-starts the tears it names.
 
     ``whole`` is the prepared tear problem of the flowsheet (its compile, topology and
     issues; :func:`model.solve.tear_problem.prepare_tear_problem`), with at least one
@@ -185,4 +192,4 @@ def solve_by_parts(
     steps = solve_steps(
         list(flowsheet.blocks), streams, whole.tear_streams, whole.calculation_order
     )
-    return _PartByPart(flowsheet, whole, method, settings, callback).run(steps)
+    return _PartByPart(flowsheet, whole, method, settings, callback, start_tears).run(steps)

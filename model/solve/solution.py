@@ -17,6 +17,7 @@ from model.blocks.result import BlockResult
 from model.properties.stream_state import StreamState
 from model.solve.convergence_data import convergence_from_dict, convergence_to_dict
 from model.solve.part_results import PartSolution, label_records, parts_from_dict
+from model.solve.target_results import TargetsOutcome
 from model.validation.issue import Issue
 
 if TYPE_CHECKING:
@@ -79,6 +80,7 @@ class FlowsheetSolution:
     issues: list[Issue] = field(default_factory=list)
     parts: list[PartSolution] = field(default_factory=list)
     block_evaluations: int = 0
+    targets: TargetsOutcome | None = None  # the outer loop's report (model.solve.targets)
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-able form for the case file (the basis is not stored)."""
@@ -99,6 +101,7 @@ class FlowsheetSolution:
             "block_evaluations": self.block_evaluations,
             "balance": None if self.balance is None else self.balance.to_dict(),
             "issues": [issue.to_dict() for issue in self.issues],
+            **({} if self.targets is None else {"targets": self.targets.to_dict()}),
         }
 
     @classmethod
@@ -135,4 +138,7 @@ class FlowsheetSolution:
             issues=[Issue.from_dict(i) for i in data.get("issues", [])],
             parts=parts,
             block_evaluations=int(data.get("block_evaluations", 0)),
+            targets=None
+            if data.get("targets") is None
+            else TargetsOutcome.from_dict(data["targets"]),
         )

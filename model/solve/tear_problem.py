@@ -36,6 +36,7 @@ A feed of water mixed with half of what leaves the mixer (recycle ratio 0.5):
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -170,11 +171,14 @@ class TearProblem:
             self.phase_guesses,
         )
 
-    def make_start(self, flowsheet: Flowsheet) -> None:
+    def make_start(
+        self, flowsheet: Flowsheet, start_tears: Mapping[str, StreamState] | None = None
+    ) -> None:
         """Build :attr:`problem`: the start x0 and the pass function g.
 
-        The start is the user's estimate of a tear where given; otherwise one pass with
-        the tears at zero flow, whose recomputed tears are x0.
+        The start is a tear's state in ``start_tears`` (a warm start from an earlier
+        solution, by stream name) where given, else the user's estimate of the tear;
+        otherwise one pass with the tears at zero flow, whose recomputed tears are x0.
 
         Raises
         ------
@@ -183,6 +187,7 @@ class TearProblem:
         """
         tears, runner = self.tears, self.runner
         start, estimated = _starting_states(flowsheet, self.compiled, tears, self.feeds)
+        _warm_states(start, estimated, tears, start_tears or {})
         x_start = tears.pack(start)
         if not all(estimated):
             runner.run(start, strict=False)
@@ -242,6 +247,26 @@ def _starting_states(
         )
         estimated.append(estimate is not None)
     return states, estimated
+
+
+def _warm_states(
+    start: list[StreamState],
+    estimated: list[bool],
+    tears: TearVector,
+    start_tears: Mapping[str, StreamState],
+) -> None:
+    """Put the warm-start states in place of the estimates (a state of another
+    component list, or not finite, is ignored: the estimate or the start pass stays)."""
+    for k, name in enumerate(tears.tear_streams):
+        state = start_tears.get(name)
+        if state is None or len(state.flows) != len(start[k].flows):
+            continue
+        values = np.append(state.flows, (state.T, state.P))
+        if not np.all(np.isfinite(values)):
+            continue
+        start[k] = StreamState(np.maximum(state.flows, 0.0), state.T, state.P, state.phase)
+        tears.phases[k] = state.phase
+        estimated[k] = True
 
 
 def _phase_guesses(flowsheet: Flowsheet, feeds: list[StreamState]) -> dict[str, str]:

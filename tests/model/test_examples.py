@@ -26,10 +26,12 @@ def _build_module():
     return module
 
 
-def _solved(path: Path, default_settings: bool = False):
+def _solved(path: Path, default_settings: bool = False, specs_only: bool = False):
     case = load_case(path)
     if default_settings:
         case.settings = SolverSettings()
+    if specs_only:  # the specs as they stand, without the case's targets adjusting them
+        case.flowsheet.targets = []
     return case, case.solve()
 
 
@@ -92,7 +94,8 @@ def test_solving_a_reopened_example_gives_identical_numbers(path: Path, tmp_path
 
 
 def test_ammonia_loop_purges_exactly_the_argon_fed() -> None:
-    case, solution = _solved(EXAMPLES / "ammonia_synthesis_loop.loop.json")
+    # the purge fraction as specified (2 %), not as the example's target adjusts it
+    case, solution = _solved(EXAMPLES / "ammonia_synthesis_loop.loop.json", specs_only=True)
     streams, names = solution.streams, solution.component_names
     argon = names.index("argon")
     # Hand balance: argon leaves only with the purge, 2 % of the loop gas, so the loop gas
@@ -108,7 +111,7 @@ def test_ammonia_loop_purges_exactly_the_argon_fed() -> None:
 def test_ammonia_loop_converges_fast_at_default_settings_and_crawls_with_the_old_rules() -> None:
     path = EXAMPLES / "ammonia_synthesis_loop.loop.json"
     tolerance = SolverSettings().tolerance
-    _, default = _solved(path, default_settings=True)
+    _, default = _solved(path, default_settings=True, specs_only=True)  # purge 2 %
     argon = default.component_names.index("argon")
     # Hand balance: the loop gas carries 300 kmol/h x 0.005 / 0.02 = 75 kmol/h of argon.
     argon_in, argon_out = default.balance.elements["Ar"]
@@ -121,6 +124,7 @@ def test_ammonia_loop_converges_fast_at_default_settings_and_crawls_with_the_old
     # q = 0.98 / (0.98 - 1) = -49 lies beyond q_min = -5.
     case = load_case(path)
     case.settings = SolverSettings(q_min=-5.0, adaptive_bounds=False, stop_on="residual")
+    case.flowsheet.targets = []
     old = case.solve()
     diagnosis = old.convergence.diagnosis["Recycle gas"]
     assert diagnosis.slope == pytest.approx(0.98, abs=0.005)
@@ -128,6 +132,22 @@ def test_ammonia_loop_converges_fast_at_default_settings_and_crawls_with_the_old
     assert old.convergence.converged and old.convergence.iterations > 100
     # ... and stopping on the residual leaves the argon balance open: reported as failed
     assert not old.converged and "balances do not close" in old.message
+
+
+def test_ammonia_loop_target_gives_the_closed_form_purge_for_8_percent_argon() -> None:
+    """The example's own target: the purge fraction at which argon in = argon purged
+    leaves 8 mol % argon in the recycle gas, derived by hand in
+    tests/model/solve/ammonia_closed_form.py (a quadratic in the purge fraction)."""
+    from tests.model.solve.ammonia_closed_form import example_loop
+
+    case, solution = _solved(EXAMPLES / "ammonia_synthesis_loop.loop.json")
+    (target,) = case.flowsheet.targets
+    assert str(target.adjusted) == "Purge splitter.fractions[out2]"
+    assert solution.converged and solution.targets.all_met
+    expected = example_loop(case).purge_for_argon(0.08)
+    # 1e-6: the target tolerance is 1e-7 on the argon fraction, the recycle's 1e-8
+    assert abs(solution.targets.results[0].adjusted - expected) <= 1e-6 * expected
+    assert abs(solution.targets.results[0].adjusted - expected) <= 1e-6
 
 
 def test_shift_example_converts_three_quarters_of_the_carbon_monoxide() -> None:
