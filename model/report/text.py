@@ -136,8 +136,10 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``block_evaluations``, ``parts`` (per strongly connected part: ``label``, ``blocks``,
     ``tear_streams``, ``status``, ``iterations``, ``passes``, ``block_evaluations``),
     ``tears`` (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
-    ``T_K``, ``P_Pa``, ``phase``, ``enthalpy_flow_W``), ``blocks`` (name -> ``duty_W``
-    where the block has one), ``closure`` (relative closures ``mass``, ``elements``,
+    ``T_K``, ``P_Pa``, ``phase``, ``vapor_fraction``, for two phases
+    ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``), ``blocks``
+    (name -> ``duty_W`` where the block has one), ``closure`` (relative closures ``mass``,
+    ``elements``,
     ``energy``) and ``cautions``.
     """
     result = solution.convergence
@@ -148,6 +150,8 @@ def solution_summary(solution: Any) -> dict[str, Any]:
             "T_K": float(state.T),
             "P_Pa": float(state.P),
             "phase": state.phase,
+            "vapor_fraction": state.vapor_fraction(),
+            **_phase_flows(state, components),
             "enthalpy_flow_W": float(state.enthalpy_flow(solution.basis)),
         }
         for name, state in solution.streams.items()
@@ -192,4 +196,14 @@ def solution_summary(solution: Any) -> dict[str, Any]:
             "energy": float(balance.energy_closure),
         },
         "cautions": list(CAUTIONS),
+    }
+
+
+def _phase_flows(state: Any, components: list[str]) -> dict[str, Any]:
+    """Each phase's component flows of a two-phase stream; nothing for one phase."""
+    if not state.two_phase:
+        return {}
+    return {
+        "vapor_flows_mol_s": dict(zip(components, state.vapor_flows.tolist(), strict=True)),
+        "liquid_flows_mol_s": dict(zip(components, state.liquid_flows.tolist(), strict=True)),
     }
