@@ -75,12 +75,24 @@ class Flowsheet:
     stream_renamed = Signal(object, str)  # stream, old name
     stream_changed = Signal(object)  # preferred tear or estimate
     components_changed = Signal()
+    property_method_changed = Signal(str)
     structure_changed = Signal()  # any block or stream added, removed or renamed
 
     def __init__(self) -> None:
         self.components: list[Any] = []  # model.properties.components.Component, in case order
         self.blocks: dict[str, Block] = {}
         self.streams: dict[str, Stream] = {}
+        #: Phase equilibrium method of the case (model.properties.property_method).
+        self.property_method = "ideal"
+
+    def set_property_method(self, name: str) -> None:
+        """Choose the case's property method; an unknown name changes nothing."""
+        from model.properties.property_method import check_property_method
+
+        name = check_property_method(name)
+        if name != self.property_method:
+            self.property_method = name
+            self.property_method_changed.emit(name)
 
     # ---- components -------------------------------------------------------------
     def component_names(self) -> list[str]:

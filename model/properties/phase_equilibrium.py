@@ -28,6 +28,7 @@ from model.properties.vapor_pressure import VaporPressureData
 IDEAL = "ideal"
 _T_TOLERANCE = 1e-9  # K
 _CACHE_SIZE = 16
+_LN_K_LIMIT = 700.0  # |ln K| beyond this is held there: exp() stays finite
 
 
 @dataclass(frozen=True)
@@ -70,6 +71,7 @@ class IdealEquilibrium:
             return known
         ln_P = math.log(P)
         values = np.array([record.ln_K_pressure(T) - ln_P for record in self.data])
+        np.clip(values, -_LN_K_LIMIT, _LN_K_LIMIT, out=values)
         if len(self._K_cache) >= _CACHE_SIZE:
             del self._K_cache[next(iter(self._K_cache))]
         self._K_cache[key] = values

@@ -1,6 +1,7 @@
 """The stream table: one column per stream, one row per quantity, in a unit system.
 
-Rows: phase, T, P, total molar flow, mass flow, each component's flow and mole
+Rows: phase, T, P, total molar flow, mass flow, vapor fraction (and, when a stream is
+two-phase, each component's vapor flow), each component's flow and mole
 fraction, enthalpy flow. Columns carry the streams' names and their numbers
 (``model.report.stream_numbers``). Every number is converted once from internal units;
 the text, CSV and spreadsheet forms are made from the same table, so the window, the
@@ -115,7 +116,18 @@ def stream_table(
             system, "Total molar flow", "molar_flow", [state.total_molar_flow() for state in states]
         ),
         _row(system, "Mass flow", "mass_flow", [state.mass_flow(basis) for state in states]),
+        _row(system, "Vapor fraction", "fraction", [_vapor_fraction(state) for state in states]),
     ]
+    if any(state.two_phase for state in states):  # each phase's flows, for two-phase streams
+        for index, component in enumerate(components):
+            rows.append(
+                _row(
+                    system,
+                    f"Vapor flow {component}",
+                    "molar_flow",
+                    [float(state.flows[index] - state.liquid_flows[index]) for state in states],
+                )
+            )
     for index, component in enumerate(components):
         rows.append(
             _row(
@@ -143,6 +155,11 @@ def stream_table(
 
 def _row(system: Any, label: str, kind: str, values: list[float]) -> TableRow:
     return TableRow(label, kind, display_unit(system, kind), tuple(float(v) for v in values))
+
+
+def _vapor_fraction(state: Any) -> float:
+    """Molar vapor fraction (0 for a stream with no flow)."""
+    return state.vapor_fraction() if state.total_molar_flow() > 0.0 else 0.0
 
 
 def _mole_fraction(state: Any, index: int) -> float:
