@@ -15,7 +15,7 @@ from typing import Any
 from model.blocks.base import BlockOutput, CompiledBlock, enthalpy
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
-from model.properties.phase_equilibrium import FlashResult, IdealEquilibrium
+from model.properties.phase_equilibrium import EquilibriumSearch, FlashResult
 from model.properties.property_method import equilibrium_for
 from model.properties.stream_state import StreamState
 
@@ -30,7 +30,7 @@ class CompiledFlashDrum(CompiledBlock):
     P: float | None
     duty: float | None
     vapor_fraction: float | None
-    equilibrium: IdealEquilibrium
+    equilibrium: EquilibriumSearch
 
 
 def build_flash_drum(common: dict[str, Any], specs: dict[str, Any], basis) -> CompiledFlashDrum:

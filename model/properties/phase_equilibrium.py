@@ -45,7 +45,73 @@ class FlashResult:
     K: np.ndarray
 
 
-class IdealEquilibrium:
+class EquilibriumSearch:
+    """What every property method's equilibrium shares: the enthalpy of a flash's
+    phases, the flash at a given enthalpy (a search on T over ``flash_TP``), and bubble
+    and dew points (``flash_PV`` at 0 and 1). Subclasses give ``flash_TP`` and
+    ``flash_PV``."""
+
+    basis: object
+
+    def flash_TP(self, flows: np.ndarray, T: float, P: float) -> FlashResult:
+        raise NotImplementedError
+
+    def flash_PV(
+        self, flows: np.ndarray, P: float, vapor_fraction: float, T_guess: float = 298.15
+    ) -> FlashResult:
+        raise NotImplementedError
+
+    def enthalpy_flow(self, result: FlashResult) -> float:
+        """Enthalpy flow (W) of a flash's two phases at its temperature."""
+        basis = self.basis
+        return basis.stream_enthalpy_flow(
+            result.vapor_flows, result.T, False
+        ) + basis.stream_enthalpy_flow(result.liquid_flows, result.T, True)
+
+    def flash_PH(
+        self, flows: np.ndarray, P: float, enthalpy_flow: float, T_guess: float = 298.15
+    ) -> FlashResult:
+        """Flash at P (Pa) to a given enthalpy flow (W): the latent heat is inside the
+        searched enthalpy, which rises with T, so the bracket holds the one answer.
+
+        Raises
+        ------
+        InputError
+            No temperature in [10 K, 6000 K] gives that enthalpy flow.
+        """
+
+        def residual(T: float) -> float:
+            return self.enthalpy_flow(self.flash_TP(flows, T, P)) - enthalpy_flow
+
+        T = _bracketed_root(residual, T_guess)
+        if T is None:
+            raise InputError(
+                "enthalpy_flow",
+                enthalpy_flow,
+                f"an enthalpy flow this stream reaches between {T_SEARCH_MIN:g} K and "
+                f"{T_SEARCH_MAX:g} K at {P:.6g} Pa",
+            )
+        return self.flash_TP(flows, T, P)
+
+    def bubble_point(self, flows: np.ndarray, P: float, T_guess: float = 298.15) -> float | None:
+        """Bubble temperature (K) at P (Pa); None where none lies in [10 K, 6000 K]."""
+        return self._saturation(flows, P, T_guess, 0.0)
+
+    def dew_point(self, flows: np.ndarray, P: float, T_guess: float = 298.15) -> float | None:
+        """Dew temperature (K) at P (Pa); None where none lies in [10 K, 6000 K]."""
+        return self._saturation(flows, P, T_guess, 1.0)
+
+    def _saturation(self, flows: np.ndarray, P: float, T_guess: float, V: float) -> float | None:
+        flows = np.asarray(flows, dtype=float)
+        if not flows.sum() > 0.0:
+            return None
+        try:
+            return self.flash_PV(flows, P, V, T_guess).T
+        except InputError:
+            return None
+
+
+class IdealEquilibrium(EquilibriumSearch):
     """Raoult's and Henry's law for one component list (``basis`` order).
 
     Parameters
@@ -102,38 +168,6 @@ class IdealEquilibrium:
         liquid = np.maximum(flows - vapor, 0.0)
         return FlashResult(T, P, vapor, liquid, split.vapor_fraction, split.phase, K)
 
-    def enthalpy_flow(self, result: FlashResult) -> float:
-        """Enthalpy flow (W) of a flash's two phases at its temperature."""
-        basis = self.basis
-        return basis.stream_enthalpy_flow(
-            result.vapor_flows, result.T, False
-        ) + basis.stream_enthalpy_flow(result.liquid_flows, result.T, True)
-
-    def flash_PH(
-        self, flows: np.ndarray, P: float, enthalpy_flow: float, T_guess: float = 298.15
-    ) -> FlashResult:
-        """Flash at P (Pa) to a given enthalpy flow (W): the latent heat is inside the
-        searched enthalpy, which rises with T, so the bracket holds the one answer.
-
-        Raises
-        ------
-        InputError
-            No temperature in [10 K, 6000 K] gives that enthalpy flow.
-        """
-
-        def residual(T: float) -> float:
-            return self.enthalpy_flow(self.flash_TP(flows, T, P)) - enthalpy_flow
-
-        T = _bracketed_root(residual, T_guess)
-        if T is None:
-            raise InputError(
-                "enthalpy_flow",
-                enthalpy_flow,
-                f"an enthalpy flow this stream reaches between {T_SEARCH_MIN:g} K and "
-                f"{T_SEARCH_MAX:g} K at {P:.6g} Pa",
-            )
-        return self.flash_TP(flows, T, P)
-
     def flash_PV(
         self, flows: np.ndarray, P: float, vapor_fraction: float, T_guess: float = 298.15
     ) -> FlashResult:
@@ -163,23 +197,6 @@ class IdealEquilibrium:
                 f"{T_SEARCH_MAX:g} K at {P:.6g} Pa",
             )
         return self.flash_TP(flows, T, P)
-
-    def bubble_point(self, flows: np.ndarray, P: float, T_guess: float = 298.15) -> float | None:
-        """Bubble temperature (K) at P (Pa); None where none lies in [10 K, 6000 K]."""
-        return self._saturation(flows, P, T_guess, 0.0)
-
-    def dew_point(self, flows: np.ndarray, P: float, T_guess: float = 298.15) -> float | None:
-        """Dew temperature (K) at P (Pa); None where none lies in [10 K, 6000 K]."""
-        return self._saturation(flows, P, T_guess, 1.0)
-
-    def _saturation(self, flows: np.ndarray, P: float, T_guess: float, V: float) -> float | None:
-        flows = np.asarray(flows, dtype=float)
-        if not flows.sum() > 0.0:
-            return None
-        try:
-            return self.flash_PV(flows, P, V, T_guess).T
-        except InputError:
-            return None
 
 
 def _bracketed_root(residual: Callable[[float], float], guess: float) -> float | None:

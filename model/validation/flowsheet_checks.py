@@ -351,19 +351,20 @@ def mixer_phase_issues(flowsheet: Flowsheet, ports: PortMap) -> list[Issue]:
 
 def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
     """A flash drum needs the property method's data for every component of the case."""
-    from model.properties.vapor_pressure import vapor_pressure_data
+    from model.properties.property_method import missing_data
 
     issues = []
+    method = flowsheet.property_method
     for component in flowsheet.components:
-        try:
-            vapor_pressure_data(component.name, component.cas, component.Tc)
-        except InputError as error:
+        lacking = missing_data(method, component)
+        if lacking is not None:
+            what = "vapor-pressure data" if method == "ideal" else "an acentric factor"
             issues.append(
                 Issue(
                     "error",
-                    f"{block.name}.components: {component.name!r} has no vapor-pressure data "
-                    f"for the {flowsheet.property_method} property method ({error.allowed}); "
-                    "use a separator with a stated split instead",
+                    f"{block.name}.components: {component.name!r} has no {what} for the "
+                    f"{method} property method ({lacking}); use a separator with a "
+                    "stated split instead",
                     block.name,
                     None,
                     "components",

@@ -21,17 +21,24 @@ NAMES = ["benzene", "toluene"]
 FLOWS = {"benzene": 0.4, "toluene": 0.6}
 
 
-def _drum(specs: dict, T_feed: float = 300.0, phase: str = "liquid") -> Flowsheet:
+def _drum(
+    specs: dict,
+    T_feed: float = 300.0,
+    phase: str = "liquid",
+    flows: dict[str, float] = FLOWS,
+    P_bar: float = 1.01325,
+) -> Flowsheet:
+    """Feed -> flash drum D -> vapor and liquid products (streams named by their port)."""
     sheet = Flowsheet()
-    for name in NAMES:
+    for name in flows:
         sheet.add_component(lookup_component(name))
     sheet.add_block(
         "Feed",
         "F",
         specs={
-            "flows": ComponentAmounts(FLOWS, "mol/s"),
+            "flows": ComponentAmounts(flows, "mol/s"),
             "T": TypedQuantity(T_feed, "K"),
-            "P": TypedQuantity(1.01325, "bar"),
+            "P": TypedQuantity(P_bar, "bar"),
             "phase": phase,
         },
     )
