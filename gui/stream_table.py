@@ -116,6 +116,7 @@ def build_rows(solution: Any, unit_system: str, names: list[str] | None = None) 
         )
     ]
     rows.append(_window_row(by_label["Enthalpy flow"], "Enthalpy flow"))
+    rows += [_window_row(by_label[k], k) for k in ("Bubble point", "Dew point") if k in by_label]
     rows.append(TableRow(f"Component molar flows [{flow_unit}]"))
     rows += [_window_row(by_label[f"Molar flow {c}"], f"  {c}") for c in components]
     if f"Vapor flow {components[0]}" in by_label:  # some stream is two-phase

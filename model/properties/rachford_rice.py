@@ -57,8 +57,10 @@ def solve_rachford_rice(z: np.ndarray, K: np.ndarray) -> SplitResult:
     K = np.asarray(K, dtype=float)
     present = z > 0.0
     zp, Kp = z[present], K[present]
-    f_zero = float(np.sum(zp * (Kp - 1.0)))  # f(0) = sum z K - 1
-    f_one = float(np.sum(zp * (1.0 - 1.0 / Kp)))  # f(1) = 1 - sum z / K
+    # f(0) = sum z K - 1 and f(1) = 1 - sum z / K, evaluated by the very function the
+    # root search calls, so the phase test and the bracket agree to the last bit
+    f_zero = rachford_rice_residual(0.0, zp, Kp)
+    f_one = rachford_rice_residual(1.0, zp, Kp)
     if f_zero <= 0.0:
         y = K * z
         return SplitResult(0.0, z.copy(), y / y.sum(), "liquid")

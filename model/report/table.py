@@ -2,7 +2,8 @@
 
 Rows: phase, T, P, total molar flow, mass flow, vapor fraction (and, when a stream is
 two-phase, each component's vapor flow), each component's flow and mole
-fraction, enthalpy flow. Columns carry the streams' names and their numbers
+fraction, enthalpy flow, and for a case with a flash drum each stream's bubble and dew
+point. Columns carry the streams' names and their numbers
 (``model.report.stream_numbers``). Every number is converted once from internal units;
 the text, CSV and spreadsheet forms are made from the same table, so the window, the
 command line and the exports show the same numbers.
@@ -149,12 +150,41 @@ def stream_table(
     rows.append(
         _row(system, "Enthalpy flow", "power", [state.enthalpy_flow(basis) for state in states])
     )
+    if _has_flash_drum(solution):
+        rows += _saturation_rows(system, basis, states)
     numbers = tuple((stream_numbers or {}).get(name) for name in names)
     return StreamTable(unit_system, tuple(names), tuple(rows), numbers)
 
 
 def _row(system: Any, label: str, kind: str, values: list[float]) -> TableRow:
     return TableRow(label, kind, display_unit(system, kind), tuple(float(v) for v in values))
+
+
+def _has_flash_drum(solution: Any) -> bool:
+    """True when a block of the solution reported a vapor fraction (a flash drum)."""
+    blocks = getattr(solution, "blocks", {}) or {}
+    return any("vapor fraction" in result.values for result in blocks.values())
+
+
+def _saturation_rows(system: Any, basis: Any, states: list[Any]) -> list[TableRow]:
+    """Bubble and dew point of each stream at its pressure (NaN where there is none in
+    10-6000 K, or the property method lacks data), for cases with a flash drum."""
+    from model.errors import InputError
+    from model.properties.property_method import equilibrium_for
+
+    try:
+        equilibrium = equilibrium_for(basis)
+    except InputError:
+        return []
+    points: dict[str, list[float]] = {"Bubble point": [], "Dew point": []}
+    for state in states:
+        for label, find in (
+            ("Bubble point", equilibrium.bubble_point),
+            ("Dew point", equilibrium.dew_point),
+        ):
+            value = find(state.flows, state.P, state.T) if state.total_molar_flow() > 0 else None
+            points[label].append(math.nan if value is None else value)
+    return [_row(system, label, "temperature", values) for label, values in points.items()]
 
 
 def _vapor_fraction(state: Any) -> float:

@@ -4,6 +4,7 @@ components pane."""
 
 from __future__ import annotations
 
+import pytest
 from PySide6.QtCore import QPointF
 
 from model.flowsheet.spec_values import TypedQuantity
@@ -19,6 +20,13 @@ def test_flash_drum_from_shelf_to_stream_table(qtbot, window, example_path, drop
     row = next(r for r in table.rows if r.title.startswith("Vapor fraction"))
     texts = row.texts()
     assert "1" in texts and "0" in texts  # the drum's vapor and liquid outlets
+    # a case with a flash drum shows bubble and dew points: the drum's liquid is at its
+    # bubble point and its vapor at its dew point (both at the drum's -10 degC)
+    bubble = next(r for r in table.rows if r.title.startswith("Bubble point"))
+    dew = next(r for r in table.rows if r.title.startswith("Dew point"))
+    streams = list(window.case.solution.streams)
+    assert float(bubble.texts()[streams.index("Ammonia")]) == pytest.approx(-10.0, abs=1e-6)
+    assert float(dew.texts()[streams.index("Loop gas")]) == pytest.approx(-10.0, abs=1e-6)
     # the drum's form shows its specs and its computed vapor fraction
     form = window.details.show_block("Ammonia separator")
     assert {"mode", "T", "P"} <= set(form.editors)

@@ -150,3 +150,22 @@ def test_component_without_vapor_pressure_data_is_refused_naming_it():
     errors = [i for i in validate_flowsheet(sheet) if i.is_error]
     assert [(e.block, e.field) for e in errors] == [("D", "components")]
     assert "my oil" in errors[0].message
+
+
+def test_stream_table_of_a_case_with_a_flash_drum_has_bubble_and_dew_points():
+    # thermo FlashVL at P and VF = 0 / 1 for the feed (benzene-toluene 40/60), 1e-6 rel.
+    from model.report.table import stream_table
+
+    solution = solve_flowsheet(_drum({"mode": "temperature", "T": TypedQuantity(371.0, "K")}))
+    table = stream_table(solution, "SI", ["feed", "vapor", "liquid"])
+    rows = {row.label: row.values for row in table.rows}
+    flasher = _thermo_flasher(NAMES)
+    assert rows["Bubble point"][0] == pytest.approx(
+        flasher.flash(P=101325.0, VF=0.0, zs=[0.4, 0.6]).T, rel=1e-6
+    )
+    assert rows["Dew point"][0] == pytest.approx(
+        flasher.flash(P=101325.0, VF=1.0, zs=[0.4, 0.6]).T, rel=1e-6
+    )
+    # the drum's outlets are saturated at its temperature
+    assert rows["Dew point"][1] == pytest.approx(371.0, rel=1e-9)
+    assert rows["Bubble point"][2] == pytest.approx(371.0, rel=1e-9)

@@ -162,3 +162,19 @@ def test_henry_law_keeps_light_gases_out_of_liquid_ammonia():
 def test_component_without_vapor_pressure_data_is_refused():
     with pytest.raises(InputError, match="vapor_pressure"):
         vapor_pressure_data("my oil", "", 700.0)
+
+
+def test_dew_point_of_a_drum_vapor_is_the_drum_temperature():
+    # regression: the ethylene hydration drum's vapor sits at its dew point, where
+    # 1 - sum z/K was -3e-11 by one formula and positive by another, so scipy's brentq
+    # got no sign change; the phase test now uses the residual the search calls.
+    from pathlib import Path
+
+    from model.case.file import load_case
+    from model.properties.property_method import equilibrium_for
+
+    examples = Path(__file__).resolve().parents[3] / "examples"
+    solution = load_case(examples / "ethylene_hydration_two_recycles.loop.json").solve()
+    gas = solution.streams["Recycle gas"]
+    dew = equilibrium_for(solution.basis).dew_point(gas.flows, gas.P, gas.T)
+    assert dew == pytest.approx(313.15, rel=1e-9)
