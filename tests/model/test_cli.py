@@ -185,8 +185,10 @@ def test_export_writes_the_stream_table_as_csv_with_a_caution_line(capsys, tmp_p
     )  # 10 significant digits
     assert by_label["Molar flow ethanol"][1] == "mol/s"
     assert by_label["Phase"][2:] == [s.phase for s in solution.streams.values()]
-    # phase, T, P, total, mass, vapor fraction; per component x2; H
-    assert table_end == 2 + 6 + 2 * 3 + 1
+    # phase, T, P, total, mass, vapor fraction; per component x2; H; and, the case
+    # having a flash drum, bubble and dew points
+    assert table_end == 2 + 6 + 2 * 3 + 1 + 2
+    assert by_label["Dew point"][1] == "K" and by_label["Bubble point"][1] == "K"
     assert by_label["Vapor fraction"][2:] == [
         f"{s.vapor_fraction():.10g}" if s.total_molar_flow() > 0 else "0"
         for s in solution.streams.values()
