@@ -166,16 +166,32 @@ def _has_flash_drum(solution: Any) -> bool:
     return any("vapor fraction" in result.values for result in blocks.values())
 
 
+def saturation_points(solution: Any, states: list[Any]) -> dict[str, list[float]] | None:
+    """``{"Bubble point": [K ...], "Dew point": [K ...]}`` of ``states`` at their
+    pressures for a case with a flash drum (NaN where none lies in 10-6000 K); None for
+    a case without one, or when the property method lacks data."""
+    if not _has_flash_drum(solution):
+        return None
+    return _saturation_points(solution.basis, states)
+
+
 def _saturation_rows(system: Any, basis: Any, states: list[Any]) -> list[TableRow]:
+    points = _saturation_points(basis, states)
+    if points is None:
+        return []
+    return [_row(system, label, "temperature", values) for label, values in points.items()]
+
+
+def _saturation_points(basis: Any, states: list[Any]) -> dict[str, list[float]] | None:
     """Bubble and dew point of each stream at its pressure (NaN where there is none in
-    10-6000 K, or the property method lacks data), for cases with a flash drum."""
+    10-6000 K); None when the property method lacks data."""
     from model.errors import InputError
     from model.properties.property_method import equilibrium_for
 
     try:
         equilibrium = equilibrium_for(basis)
     except InputError:
-        return []
+        return None
     points: dict[str, list[float]] = {"Bubble point": [], "Dew point": []}
     for state in states:
         for label, find in (
@@ -184,7 +200,7 @@ def _saturation_rows(system: Any, basis: Any, states: list[Any]) -> list[TableRo
         ):
             value = find(state.flows, state.P, state.T) if state.total_molar_flow() > 0 else None
             points[label].append(math.nan if value is None else value)
-    return [_row(system, label, "temperature", values) for label, values in points.items()]
+    return points
 
 
 def _vapor_fraction(state: Any) -> float:

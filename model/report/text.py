@@ -12,7 +12,7 @@ from typing import Any
 from model.report.block_table import WARNING, result_rows
 from model.report.cautions import CAUTIONS
 from model.report.report_order import ReportOrder
-from model.report.table import stream_table, stream_table_text
+from model.report.table import saturation_points, stream_table, stream_table_text
 from units_of_measure import format_value
 
 
@@ -137,7 +137,8 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``tear_streams``, ``status``, ``iterations``, ``passes``, ``block_evaluations``),
     ``tears`` (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
     ``T_K``, ``P_Pa``, ``phase``, ``vapor_fraction``, for two phases
-    ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``), ``blocks``
+    ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``, in a case with a
+    flash drum ``bubble_point_K`` and ``dew_point_K``, null where none), ``blocks``
     (name -> ``duty_W`` where the block has one), ``closure`` (relative closures ``mass``,
     ``elements``,
     ``energy``) and ``cautions``.
@@ -156,6 +157,12 @@ def solution_summary(solution: Any) -> dict[str, Any]:
         }
         for name, state in solution.streams.items()
     }
+    points = saturation_points(solution, list(solution.streams.values()))
+    if points is not None:  # a case with a flash drum: each stream's bubble and dew point
+        for index, entry in enumerate(streams.values()):
+            for label, key in (("Bubble point", "bubble_point_K"), ("Dew point", "dew_point_K")):
+                value = points[label][index]
+                entry[key] = None if value != value else float(value)
     balance = solution.balance
     return {
         "status": solution.status,

@@ -266,3 +266,6 @@ def test_solve_json_of_a_case_with_a_flash_drum_shows_vapor_fractions(capsys) ->
     ammonia = streams["Ammonia"]["molar_flows_mol_s"]
     gas = streams["Loop gas"]["molar_flows_mol_s"]
     assert ammonia["ammonia"] > 5 * gas["ammonia"] and gas["argon"] > 100 * ammonia["argon"]
+    # the drum's liquid leaves at its bubble point, its gas at its dew point (-10 degC)
+    assert streams["Ammonia"]["bubble_point_K"] == pytest.approx(263.15, rel=1e-9)
+    assert streams["Loop gas"]["dew_point_K"] == pytest.approx(263.15, rel=1e-9)
