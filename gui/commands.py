@@ -365,3 +365,18 @@ class LayOutCommand(_Command):
         for stream in flowsheet.streams.values():
             if stream.bends:
                 SetBendsCommand(flowsheet, stream.name, [], parent=self)
+
+
+class SetPropertyMethodCommand(_Command):
+    """Choose the case's property method (phase equilibrium)."""
+
+    def __init__(self, flowsheet: Flowsheet, name: str) -> None:
+        super().__init__(f"Property method {name}")
+        self._flowsheet = flowsheet
+        self._new, self._old = name, flowsheet.property_method
+
+    def apply(self) -> None:
+        self._flowsheet.set_property_method(self._new)
+
+    def revert(self) -> None:
+        self._flowsheet.set_property_method(self._old)

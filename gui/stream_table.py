@@ -106,11 +106,22 @@ def build_rows(solution: Any, unit_system: str, names: list[str] | None = None) 
     flow_unit = UNIT_SYSTEMS[unit_system].unit_for("molar_flow")
     rows = [
         _window_row(by_label[label], label)
-        for label in ("Phase", "Temperature", "Pressure", "Total molar flow", "Mass flow")
+        for label in (
+            "Phase",
+            "Temperature",
+            "Pressure",
+            "Total molar flow",
+            "Mass flow",
+            "Vapor fraction",
+        )
     ]
     rows.append(_window_row(by_label["Enthalpy flow"], "Enthalpy flow"))
+    rows += [_window_row(by_label[k], k) for k in ("Bubble point", "Dew point") if k in by_label]
     rows.append(TableRow(f"Component molar flows [{flow_unit}]"))
     rows += [_window_row(by_label[f"Molar flow {c}"], f"  {c}") for c in components]
+    if f"Vapor flow {components[0]}" in by_label:  # some stream is two-phase
+        rows.append(TableRow(f"Vapor-phase molar flows [{flow_unit}]"))
+        rows += [_window_row(by_label[f"Vapor flow {c}"], f"  {c}") for c in components]
     rows.append(TableRow("Mole fractions"))
     rows += [_window_row(by_label[f"Mole fraction {c}"], f"  {c}") for c in components]
     return rows

@@ -15,7 +15,7 @@ from model.report.table import stream_table
 from model.report.text import solution_report
 
 ROOT = Path(__file__).resolve().parents[1]
-EXAMPLE = ROOT / "examples" / "ammonia_synthesis_loop.loop.json"
+EXAMPLE = ROOT / "examples" / "ammonia_loop_fixed_split.loop.json"
 
 
 def _section() -> str:

@@ -10,6 +10,7 @@ from typing import Any
 from PySide6.QtCore import QSignalBlocker, Qt
 from PySide6.QtGui import QUndoStack
 from PySide6.QtWidgets import (
+    QComboBox,
     QHBoxLayout,
     QLabel,
     QLineEdit,
@@ -19,9 +20,12 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from gui.commands import SetPropertyMethodCommand, execute
 from gui.commands_specs import AddComponentCommand, RemoveComponentCommand
 from model.errors import ComponentNotFoundError, InputError
 from model.flowsheet.document import Flowsheet
+from model.properties.property_method import PROPERTY_METHODS
+from model.properties.vapor_pressure import vapor_pressure_data
 from units_of_measure import UNIT_SYSTEMS, format_quantity
 
 from .component_form import ComponentForm
@@ -56,7 +60,32 @@ def property_rows(component: Any, unit_system: str) -> list[tuple[str, str, str]
             shown(component.Hvap_Tb, "molar_enthalpy"),
             sources.get("Hvap_Tb", ""),
         ),
+        *_phase_rows(component),
     ]
+
+
+def _phase_rows(component: Any) -> list[tuple[str, str, str]]:
+    """The ideal property method's vapor pressure and Henry constant, with sources."""
+    try:
+        data = vapor_pressure_data(component.name, component.cas, component.Tc)
+    except InputError as error:
+        return [("Vapor pressure (ideal method)", "no data", error.allowed)]
+    rows = [
+        (
+            "Vapor pressure (ideal method)",
+            f"Antoine A = {data.A:.6g}, B = {data.B:.6g} K, C = {data.C:.6g} K",
+            data.source,
+        )
+    ]
+    if data.henry_A is not None:
+        rows.append(
+            (
+                "Henry constant (above Tc)",
+                f"A = {data.henry_A:.6g}, B = {data.henry_B:.6g} K",
+                data.henry_source,
+            )
+        )
+    return rows
 
 
 class ComponentsPane(QWidget):
@@ -78,6 +107,12 @@ class ComponentsPane(QWidget):
         self._flowsheet_getter = flowsheet_getter
         self._undo_stack = undo_stack
         self._unit_system_getter = unit_system_getter
+        self.property_method_box = QComboBox()
+        self.property_method_box.addItems(list(PROPERTY_METHODS))
+        self.property_method_box.setToolTip(
+            "Phase equilibrium of the flash drums: 'ideal' is Raoult's law with Antoine "
+            "vapor pressures, Henry's law above a component's critical temperature"
+        )
         self.component_list = QListWidget()
         self.query_edit = QLineEdit()
         self.query_edit.setPlaceholderText("name, formula or CAS number, e.g. ammonia, NH3")
@@ -111,6 +146,7 @@ class ComponentsPane(QWidget):
         self.add_button.clicked.connect(self.add_from_query)
         self.remove_button.clicked.connect(self.remove_selected)
         self.component_list.currentRowChanged.connect(lambda _row: self._show_properties())
+        self.property_method_box.currentTextChanged.connect(self._choose_property_method)
         self.refresh()
 
     def _build_layout(self) -> None:
@@ -118,6 +154,10 @@ class ComponentsPane(QWidget):
         look_up.addWidget(self.query_edit, 1)
         look_up.addWidget(self.add_button)
         layout = QVBoxLayout(self)
+        method = QHBoxLayout()
+        method.addWidget(QLabel("<b>Property method</b>"))
+        method.addWidget(self.property_method_box, 1)
+        layout.addLayout(method)
         layout.addWidget(QLabel("<b>Components of this case</b>"))
         layout.addLayout(look_up)
         layout.addWidget(self.message_label)
@@ -146,6 +186,8 @@ class ComponentsPane(QWidget):
         if len(added) == 1 and self._listed:
             current = added[0]  # show the component just added
         self._listed = names
+        with QSignalBlocker(self.property_method_box):
+            self.property_method_box.setCurrentText(self.flowsheet.property_method)
         with QSignalBlocker(self.component_list):
             self.component_list.clear()
             for component in components:
@@ -155,6 +197,10 @@ class ComponentsPane(QWidget):
                     names.index(current) if current in names else len(names) - 1
                 )
         self._show_properties()
+
+    def _choose_property_method(self, name: str) -> None:
+        if name and name != self.flowsheet.property_method:
+            execute(self._undo_stack, SetPropertyMethodCommand(self.flowsheet, name))
 
     def selected_name(self) -> str | None:
         row = self.component_list.currentRow()

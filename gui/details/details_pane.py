@@ -25,6 +25,7 @@ from .stream_details import StreamDetails
 _SIGNAL_SLOTS = (
     ("block_specs_changed", "_on_specs_changed"),
     ("components_changed", "_on_components_changed"),
+    ("property_method_changed", "_on_property_method_changed"),
     ("structure_changed", "_on_structure_changed"),
     ("block_renamed", "_on_block_renamed"),
     ("block_removed", "_on_block_removed"),
@@ -184,6 +185,9 @@ class DetailsPane(QWidget):
         for form in self._forms.values():
             form.refresh_context()
         self.stream_page.refresh_context()
+        self.components_page.refresh()
+
+    def _on_property_method_changed(self, _name: str) -> None:
         self.components_page.refresh()
 
     def _on_structure_changed(self) -> None:

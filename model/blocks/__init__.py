@@ -16,6 +16,7 @@ from typing import Any
 from model.blocks.base import BlockOutput, CompiledBlock
 from model.blocks.exchanger import build_exchanger, compute_exchanger
 from model.blocks.feed import build_feed, build_product, compute_feed, compute_product
+from model.blocks.flash_drum import build_flash_drum, compute_flash_drum
 from model.blocks.heater import build_heater, compute_heater
 from model.blocks.mixer import build_mixer, compute_mixer
 from model.blocks.reactor import build_reactor, compute_reactor
@@ -35,6 +36,7 @@ BUILDERS: dict[str, Builder] = {
     "Mixer": build_mixer,
     "Splitter": build_splitter,
     "Separator": build_separator,
+    "Flash drum": build_flash_drum,
     "Reactor": build_reactor,
     "Heater": build_heater,
     "Exchanger": build_exchanger,
@@ -47,6 +49,7 @@ COMPUTERS: dict[str, Computer] = {
     "Mixer": compute_mixer,
     "Splitter": compute_splitter,
     "Separator": compute_separator,
+    "Flash drum": compute_flash_drum,
     "Reactor": compute_reactor,
     "Heater": compute_heater,
     "Exchanger": compute_exchanger,

@@ -56,7 +56,7 @@ def enthalpy(basis, state: StreamState) -> float:
     carried on it, else computed."""
     if state.enthalpy is not None:
         return state.enthalpy
-    return basis.stream_enthalpy_flow(state.flows, state.T, state.phase == "liquid")
+    return state.enthalpy_flow(basis)
 
 
 class SetTemperatureEnthalpy:

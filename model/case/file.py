@@ -45,6 +45,7 @@ TOP_KEYS = (
     "unit_system",
     "method",
     "solver_settings",
+    "property_method",
     "components",
     "blocks",
     "streams",
@@ -65,6 +66,7 @@ def case_to_dict(case: Case) -> dict[str, Any]:
         "unit_system": case.unit_system,
         "method": case.method,
         "solver_settings": case.settings.to_dict(),
+        "property_method": flowsheet.property_method,
         "components": [component.to_dict() for component in flowsheet.components],
         "blocks": [_block_to_dict(block) for block in flowsheet.blocks.values()],
         "streams": [_stream_to_dict(stream) for stream in flowsheet.streams.values()],
@@ -289,11 +291,21 @@ def _case_from_dict(data: Any, source: str) -> Case:
     )
     read_flowsheet(problems, data, case.flowsheet)
     case.flowsheet.targets = read_targets(problems, data.get("targets", MISSING))
+    _read_property_method(problems, data.get("property_method", "ideal"), case.flowsheet)
     if not problems and data.get("results") is not None:
         case.solution = read_results(problems, data["results"], case.flowsheet)
     if problems:
         raise CaseFileError(source, problems.items)
     return case
+
+
+def _read_property_method(problems: Problems, value: Any, flowsheet: Flowsheet) -> None:
+    """The optional "property_method" (absent in older files: "ideal")."""
+    from model.properties.property_method import PROPERTY_METHODS
+
+    name = problems.choice("property_method", value, PROPERTY_METHODS)
+    if name is not None:
+        flowsheet.set_property_method(name)
 
 
 def _checked_header(data: Any, source: str, problems: Problems) -> dict[str, Any]:

@@ -17,6 +17,7 @@ from typing import Any
 from model.case.schema import MISSING, Problems, join
 from model.flowsheet.document import Flowsheet
 from model.flowsheet.kinds import PHASES
+from model.properties.stream_state import TWO_PHASE
 
 
 def read_results(problems: Problems, value: Any, flowsheet: Flowsheet) -> Any:
@@ -74,7 +75,7 @@ def _check_state(problems: Problems, path: str, state: Any, component_count: int
     if "P_Pa" in data:
         problems.number(join(path, "P_Pa"), data["P_Pa"], positive=True)
     if "phase" in data:
-        problems.choice(join(path, "phase"), data["phase"], PHASES)
+        problems.choice(join(path, "phase"), data["phase"], (*PHASES, TWO_PHASE))
 
 
 def _check_convergence(problems: Problems, value: Any) -> None:

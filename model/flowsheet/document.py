@@ -80,6 +80,7 @@ class Flowsheet:
     stream_changed = Signal(object)  # preferred tear or estimate
     stream_bends_changed = Signal(object)  # the drawing only: results stay current
     components_changed = Signal()
+    property_method_changed = Signal(str)
     structure_changed = Signal()  # any block or stream added, removed or renamed
     targets_changed = Signal()  # the list of targets replaced
 
@@ -88,6 +89,17 @@ class Flowsheet:
         self.blocks: dict[str, Block] = {}
         self.streams: dict[str, Stream] = {}
         self.targets: list[Target] = []  # met by the outer loop (model.solve.targets)
+        #: Phase equilibrium method of the case (model.properties.property_method).
+        self.property_method = "ideal"
+
+    def set_property_method(self, name: str) -> None:
+        """Choose the case's property method; an unknown name changes nothing."""
+        from model.properties.property_method import check_property_method
+
+        name = check_property_method(name)
+        if name != self.property_method:
+            self.property_method = name
+            self.property_method_changed.emit(name)
 
     # ---- components -------------------------------------------------------------
     def component_names(self) -> list[str]:

@@ -348,9 +348,61 @@ EXCHANGER = BlockKind(
     glyph="⇄",
 )
 
+FLASH_MODES = ("temperature", "duty", "vapor fraction")
+
+FLASH_DRUM = BlockKind(
+    name="Flash drum",
+    inlets=("in",),
+    outlets=("vapor", "liquid"),
+    spec_fields=(
+        SpecField(
+            "mode",
+            "Specification (with the pressure)",
+            "choice",
+            default="temperature",
+            choices=FLASH_MODES,
+        ),
+        SpecField("T", "Temperature", "temperature", needed_when=("mode", ("temperature",))),
+        SpecField(
+            "P",
+            "Pressure",
+            "pressure",
+            required=False,
+            help="Leave empty for the inlet pressure.",
+        ),
+        SpecField(
+            "duty",
+            "Duty",
+            "power",
+            needed_when=("mode", ("duty",)),
+            help="Heat added; 0 for an adiabatic flash.",
+        ),
+        SpecField(
+            "vapor_fraction",
+            "Vapor fraction",
+            "fraction",
+            needed_when=("mode", ("vapor fraction",)),
+            help="Moles of vapor per mole of feed: 0 at the bubble point, 1 at the dew point.",
+        ),
+    ),
+    description="Vapor-liquid equilibrium at the drum's T and P (or duty, or vapor "
+    "fraction) by the case's property method; reports the split and the duty.",
+    glyph="◒",
+)
+
 BLOCK_KINDS: dict[str, BlockKind] = {
     kind.name: kind
-    for kind in (FEED, PRODUCT, MIXER, SPLITTER, SEPARATOR, REACTOR, HEATER, EXCHANGER)
+    for kind in (
+        FEED,
+        PRODUCT,
+        MIXER,
+        SPLITTER,
+        SEPARATOR,
+        FLASH_DRUM,
+        REACTOR,
+        HEATER,
+        EXCHANGER,
+    )
 }
 
 

@@ -167,4 +167,4 @@ def flowsheet_with_numbers(flowsheet: Any, numbers: list[tuple[SpecAddress, floa
     return view
 
 
-_DOCUMENT_PARTS = ("components", "blocks", "streams", "targets")
+_DOCUMENT_PARTS = ("components", "blocks", "streams", "targets", "property_method")

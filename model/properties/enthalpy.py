@@ -44,6 +44,9 @@ class PropertyBasis:
     ----------
     components
         The components, at least one, with unique names.
+    property_method
+        The case's property method for phase equilibrium ("ideal"); see
+        :mod:`model.properties.property_method`.
 
     Examples
     --------
@@ -53,8 +56,9 @@ class PropertyBasis:
     -241822
     """
 
-    def __init__(self, components: Sequence[Component]) -> None:
+    def __init__(self, components: Sequence[Component], property_method: str = "ideal") -> None:
         components = tuple(components)
+        self.property_method = property_method
         if not components or not all(isinstance(c, Component) for c in components):
             raise InputError("components", components, "a non-empty list of components")
         self.components = components

@@ -1,8 +1,10 @@
 """The state of one material stream: component flows, temperature, pressure, phase.
 
-Values are plain floats in internal units (mol/s, K, Pa). Pressure is carried but does
-not affect enthalpy in the ideal basis of version 1; the phase is set by the block that
-makes the stream (no phase equilibrium is computed).
+Values are plain floats in internal units (mol/s, K, Pa). Pressure does not affect
+enthalpy in the ideal basis. A single-phase stream's phase ("vapor" or "liquid") is set
+by the block that makes it; a two-phase stream (phase "two-phase", made by a flash)
+also carries its vapor's component flows, the rest being liquid, and its enthalpy is
+the sum of its two phases'.
 """
 
 from __future__ import annotations
@@ -16,6 +18,7 @@ from model.errors import InputError
 from model.properties.enthalpy import PropertyBasis
 
 PHASES = ("vapor", "liquid")
+TWO_PHASE = "two-phase"
 
 
 @dataclass(eq=False)
@@ -39,11 +42,36 @@ class StreamState:
     #: temperature's, an energy balance's target, a split of a known inlet), so the
     #: blocks downstream need not compute it again; None: not known, computed on demand.
     enthalpy: float | None = field(default=None, compare=False, repr=False)
+    #: Component flows of the vapor phase (mol/s) of a two-phase stream; None otherwise.
+    vapor_flows: np.ndarray | None = field(default=None, compare=False, repr=False)
 
     def __post_init__(self) -> None:
         # No copy when given a float array: blocks pass their inlet's flows on (a heater's
         # outlet has its inlet's), so flows are never changed in place; copy() copies.
         self.flows = np.asarray(self.flows, dtype=float)
+        if self.vapor_flows is not None:
+            self.vapor_flows = np.asarray(self.vapor_flows, dtype=float)
+            self.phase = TWO_PHASE
+
+    @property
+    def two_phase(self) -> bool:
+        """True for a stream with both a vapor and a liquid phase."""
+        return self.vapor_flows is not None
+
+    @property
+    def liquid_flows(self) -> np.ndarray:
+        """Component flows of the liquid phase, mol/s (all or none for one phase)."""
+        if self.vapor_flows is not None:
+            return np.maximum(self.flows - self.vapor_flows, 0.0)
+        return self.flows if self.liquid else np.zeros_like(self.flows)
+
+    def vapor_fraction(self) -> float:
+        """Molar vapor fraction: 0 liquid, 1 vapor, between for two phases (NaN: no flow
+        in a two-phase stream)."""
+        if self.vapor_flows is None:
+            return 0.0 if self.liquid else 1.0
+        total = self.total_molar_flow()
+        return float(self.vapor_flows.sum()) / total if total > 0.0 else math.nan
 
     @property
     def liquid(self) -> bool:
@@ -70,7 +98,10 @@ class StreamState:
         return masses / total if total > 0.0 else np.zeros_like(masses)
 
     def enthalpy_flow(self, basis: PropertyBasis) -> float:
-        """Enthalpy flow on the formation basis, W."""
+        """Enthalpy flow on the formation basis, W (a two-phase stream: both phases')."""
+        if self.vapor_flows is not None:
+            vapor = basis.stream_enthalpy_flow(self.vapor_flows, self.T, False)
+            return vapor + basis.stream_enthalpy_flow(self.liquid_flows, self.T, True)
         return basis.stream_enthalpy_flow(self.flows, self.T, self.liquid)
 
     def molar_enthalpy(self, basis: PropertyBasis) -> float:
@@ -100,12 +131,23 @@ class StreamState:
             raise InputError(f"{field}.T", self.T, "a temperature above 0 K")
         if not _is_finite_number(self.P) or not self.P > 0.0:
             raise InputError(f"{field}.P", self.P, "an absolute pressure above 0 Pa")
-        if self.phase not in PHASES:
+        if self.phase not in (*PHASES, TWO_PHASE):
             raise InputError(f"{field}.phase", self.phase, f"one of {list(PHASES)}")
+        vapor = self.vapor_flows
+        if vapor is not None and (
+            vapor.shape != flows.shape
+            or not np.all(np.isfinite(vapor))
+            or np.any(vapor < 0.0)
+            or np.any(vapor > flows * (1.0 + 1e-12))
+        ):
+            raise InputError(
+                f"{field}.vapor_flows", vapor.tolist(), "from 0 to each component's flow"
+            )
 
     def copy(self) -> StreamState:
         """An independent copy (the flow array is copied too)."""
-        return StreamState(self.flows.copy(), self.T, self.P, self.phase, self.enthalpy)
+        vapor = None if self.vapor_flows is None else self.vapor_flows.copy()
+        return StreamState(self.flows.copy(), self.T, self.P, self.phase, self.enthalpy, vapor)
 
 
 def _is_finite_number(value: object) -> bool:

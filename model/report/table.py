@@ -1,7 +1,9 @@
 """The stream table: one column per stream, one row per quantity, in a unit system.
 
-Rows: phase, T, P, total molar flow, mass flow, each component's flow and mole
-fraction, enthalpy flow. Columns carry the streams' names and their numbers
+Rows: phase, T, P, total molar flow, mass flow, vapor fraction (and, when a stream is
+two-phase, each component's vapor flow), each component's flow and mole
+fraction, enthalpy flow, and for a case with a flash drum each stream's bubble and dew
+point. Columns carry the streams' names and their numbers
 (``model.report.stream_numbers``). Every number is converted once from internal units;
 the text, CSV and spreadsheet forms are made from the same table, so the window, the
 command line and the exports show the same numbers.
@@ -115,7 +117,18 @@ def stream_table(
             system, "Total molar flow", "molar_flow", [state.total_molar_flow() for state in states]
         ),
         _row(system, "Mass flow", "mass_flow", [state.mass_flow(basis) for state in states]),
+        _row(system, "Vapor fraction", "fraction", [_vapor_fraction(state) for state in states]),
     ]
+    if any(state.two_phase for state in states):  # each phase's flows, for two-phase streams
+        for index, component in enumerate(components):
+            rows.append(
+                _row(
+                    system,
+                    f"Vapor flow {component}",
+                    "molar_flow",
+                    [float(state.flows[index] - state.liquid_flows[index]) for state in states],
+                )
+            )
     for index, component in enumerate(components):
         rows.append(
             _row(
@@ -137,12 +150,62 @@ def stream_table(
     rows.append(
         _row(system, "Enthalpy flow", "power", [state.enthalpy_flow(basis) for state in states])
     )
+    if _has_flash_drum(solution):
+        rows += _saturation_rows(system, basis, states)
     numbers = tuple((stream_numbers or {}).get(name) for name in names)
     return StreamTable(unit_system, tuple(names), tuple(rows), numbers)
 
 
 def _row(system: Any, label: str, kind: str, values: list[float]) -> TableRow:
     return TableRow(label, kind, display_unit(system, kind), tuple(float(v) for v in values))
+
+
+def _has_flash_drum(solution: Any) -> bool:
+    """True when a block of the solution reported a vapor fraction (a flash drum)."""
+    blocks = getattr(solution, "blocks", {}) or {}
+    return any("vapor fraction" in result.values for result in blocks.values())
+
+
+def saturation_points(solution: Any, states: list[Any]) -> dict[str, list[float]] | None:
+    """``{"Bubble point": [K ...], "Dew point": [K ...]}`` of ``states`` at their
+    pressures for a case with a flash drum (NaN where none lies in 10-6000 K); None for
+    a case without one, or when the property method lacks data."""
+    if not _has_flash_drum(solution):
+        return None
+    return _saturation_points(solution.basis, states)
+
+
+def _saturation_rows(system: Any, basis: Any, states: list[Any]) -> list[TableRow]:
+    points = _saturation_points(basis, states)
+    if points is None:
+        return []
+    return [_row(system, label, "temperature", values) for label, values in points.items()]
+
+
+def _saturation_points(basis: Any, states: list[Any]) -> dict[str, list[float]] | None:
+    """Bubble and dew point of each stream at its pressure (NaN where there is none in
+    10-6000 K); None when the property method lacks data."""
+    from model.errors import InputError
+    from model.properties.property_method import equilibrium_for
+
+    try:
+        equilibrium = equilibrium_for(basis)
+    except InputError:
+        return None
+    points: dict[str, list[float]] = {"Bubble point": [], "Dew point": []}
+    for state in states:
+        for label, find in (
+            ("Bubble point", equilibrium.bubble_point),
+            ("Dew point", equilibrium.dew_point),
+        ):
+            value = find(state.flows, state.P, state.T) if state.total_molar_flow() > 0 else None
+            points[label].append(math.nan if value is None else value)
+    return points
+
+
+def _vapor_fraction(state: Any) -> float:
+    """Molar vapor fraction (0 for a stream with no flow)."""
+    return state.vapor_fraction() if state.total_molar_flow() > 0.0 else 0.0
 
 
 def _mole_fraction(state: Any, index: int) -> float:

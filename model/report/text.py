@@ -12,7 +12,7 @@ from typing import Any
 from model.report.block_table import WARNING, result_rows
 from model.report.cautions import CAUTIONS
 from model.report.report_order import ReportOrder
-from model.report.table import stream_table, stream_table_text
+from model.report.table import saturation_points, stream_table, stream_table_text
 from model.report.target_lines import target_lines, targets_summary
 from units_of_measure import format_value
 
@@ -140,9 +140,11 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``block_evaluations``, ``parts`` (per strongly connected part: ``label``, ``blocks``,
     ``tear_streams``, ``status``, ``iterations``, ``passes``, ``block_evaluations``),
     ``tears`` (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
-    ``T_K``, ``P_Pa``, ``phase``, ``enthalpy_flow_W``), ``blocks`` (name -> ``duty_W``
-    where the block has one), ``closure`` (relative closures ``mass``, ``elements``,
-    ``energy``), ``cautions`` and, when the case has targets, ``targets``
+    ``T_K``, ``P_Pa``, ``phase``, ``vapor_fraction``, for two phases
+    ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``, in a case with a
+    flash drum ``bubble_point_K`` and ``dew_point_K``, null where none), ``blocks``
+    (name -> ``duty_W`` where the block has one), ``closure`` (relative closures ``mass``,
+    ``elements``, ``energy``), ``cautions`` and, when the case has targets, ``targets``
     (:func:`model.report.target_lines.targets_summary`).
     """
     result = solution.convergence
@@ -153,10 +155,18 @@ def solution_summary(solution: Any) -> dict[str, Any]:
             "T_K": float(state.T),
             "P_Pa": float(state.P),
             "phase": state.phase,
+            "vapor_fraction": state.vapor_fraction(),
+            **_phase_flows(state, components),
             "enthalpy_flow_W": float(state.enthalpy_flow(solution.basis)),
         }
         for name, state in solution.streams.items()
     }
+    points = saturation_points(solution, list(solution.streams.values()))
+    if points is not None:  # a case with a flash drum: each stream's bubble and dew point
+        for index, entry in enumerate(streams.values()):
+            for label, key in (("Bubble point", "bubble_point_K"), ("Dew point", "dew_point_K")):
+                value = points[label][index]
+                entry[key] = None if value != value else float(value)
     balance = solution.balance
     targets = targets_summary(solution)
     return {
@@ -199,4 +209,14 @@ def solution_summary(solution: Any) -> dict[str, Any]:
         },
         "cautions": list(CAUTIONS),
         **({} if targets is None else {"targets": targets}),
+    }
+
+
+def _phase_flows(state: Any, components: list[str]) -> dict[str, Any]:
+    """Each phase's component flows of a two-phase stream; nothing for one phase."""
+    if not state.two_phase:
+        return {}
+    return {
+        "vapor_flows_mol_s": dict(zip(components, state.vapor_flows.tolist(), strict=True)),
+        "liquid_flows_mol_s": dict(zip(components, state.liquid_flows.tolist(), strict=True)),
     }

@@ -167,7 +167,7 @@ def second_opinion(
         return SecondOpinion(False, message, "", 0)
     from model.properties.enthalpy import PropertyBasis
 
-    basis = PropertyBasis(flowsheet.components)
+    basis = PropertyBasis(flowsheet.components, flowsheet.property_method)
     compiled = compile_flowsheet(flowsheet, basis)
     named_phases = stream_phases(flowsheet, PortMap(flowsheet))
     known_phases = {compiled.stream_index[n]: p for n, p in named_phases.items()}

@@ -34,15 +34,19 @@ def _stream_to_dict(state: StreamState) -> dict[str, Any]:
         "T_K": state.T,
         "P_Pa": state.P,
         "phase": state.phase,
+        "vapor_fraction": state.vapor_fraction(),
+        **({} if state.vapor_flows is None else {"vapor_flows_mol_s": state.vapor_flows.tolist()}),
     }
 
 
 def _stream_from_dict(data: dict[str, Any]) -> StreamState:
+    vapor = data.get("vapor_flows_mol_s")
     return StreamState(
         np.array(data["flows_mol_s"], dtype=float),
         float(data["T_K"]),
         float(data["P_Pa"]),
         str(data["phase"]),
+        vapor_flows=None if vapor is None else np.array(vapor, dtype=float),
     )
 
 

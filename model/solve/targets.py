@@ -115,6 +115,18 @@ class _OuterLoop:
             self.tears = solution.streams
         self.last, self.last_x = solution, np.array(x, dtype=float)
         measured = np.array([result_value(solution, t.measured) for t in self.targets])
+        if not np.all(np.isfinite(measured)):  # e.g. a mole fraction of a stream with no flow
+            k = int(np.flatnonzero(~np.isfinite(measured))[0])
+            adjusted = ", ".join(
+                f"{t.adjusted} = {v:.6g}" for t, v in zip(self.targets, x, strict=True)
+            )
+            reason = f"{self.labels[k]}: its measured value is not a number at {adjusted}"
+            solution.status, solution.converged, solution.message = "failed", False, reason
+            solution.issues.append(
+                Issue("error", reason, block=self.targets[k].adjusted.block, field="targets")
+            )
+            self.failure = solution
+            raise _Stop
         r = (measured - self.wanted) / self.scale
         record = TargetIterationRecord(
             len(self.history) + 1,

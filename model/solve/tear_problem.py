@@ -285,7 +285,7 @@ def prepare_tear_problem(flowsheet: Flowsheet, issues: list[Issue]) -> TearProbl
     problem's :attr:`~TearProblem.problem` is None until
     :meth:`~TearProblem.make_start`.
     """
-    basis = PropertyBasis(flowsheet.components)
+    basis = PropertyBasis(flowsheet.components, flowsheet.property_method)
     compiled = compile_flowsheet(flowsheet, basis)
     topology = _topology(flowsheet, basis)
     for name in topology.unused_preferred_tears:

@@ -315,6 +315,8 @@ def _outlet_phase(
     block: Block, stream: Stream, ports: PortMap, phases: dict[str, str]
 ) -> str | None:
     """The phase ``block`` gives ``stream``: its phase spec, or its inlets' common phase."""
+    if block.kind == "Flash drum":  # each outlet is its phase's
+        return stream.source_port if stream.source_port in ("vapor", "liquid") else None
     field, inlet_ports = _PHASE_RULES.get((block.kind, stream.source_port), (None, None))
     chosen = block.specs.get(field) if field else AS_INLET
     if chosen != AS_INLET:
@@ -342,6 +344,30 @@ def mixer_phase_issues(flowsheet: Flowsheet, ports: PortMap) -> list[Issue]:
                     block.name,
                     None,
                     "phase",
+                )
+            )
+    return issues
+
+
+def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
+    """A flash drum needs the property method's data for every component of the case."""
+    from model.properties.property_method import missing_data
+
+    issues = []
+    method = flowsheet.property_method
+    for component in flowsheet.components:
+        lacking = missing_data(method, component)
+        if lacking is not None:
+            what = "vapor-pressure data" if method == "ideal" else "an acentric factor"
+            issues.append(
+                Issue(
+                    "error",
+                    f"{block.name}.components: {component.name!r} has no {what} for the "
+                    f"{method} property method ({lacking}); use a separator with a "
+                    "stated split instead",
+                    block.name,
+                    None,
+                    "components",
                 )
             )
     return issues

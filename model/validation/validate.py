@@ -24,6 +24,7 @@ from model.flowsheet.spec_checks import check_spec_value, element_balance_functi
 from model.validation.flowsheet_checks import (
     PortMap,
     feed_issues,
+    flash_drum_issues,
     mixer_phase_issues,
     port_issues,
     spec_issues,
@@ -72,6 +73,8 @@ def validate_flowsheet(flowsheet: Flowsheet) -> list[Issue]:
             issues += splitter_issues(block, ports)
         elif block.kind == "Feed":
             issues += feed_issues(block)
+        elif block.kind == "Flash drum":
+            issues += flash_drum_issues(flowsheet, block)
     issues += mixer_phase_issues(flowsheet, ports)
     return issues
 

@@ -112,7 +112,7 @@ def test_clearing_the_estimate_is_undone_in_one_step(pane, case):
 
 
 def test_an_estimate_at_the_answer_reaches_the_solver(qtbot):
-    case = load_case(EXAMPLES / "ammonia_synthesis_loop.loop.json")
+    case = load_case(EXAMPLES / "ammonia_loop_fixed_split.loop.json")
     case.flowsheet.targets = []  # the recycle solve of the specs as they stand
     pane = DetailsPane(lambda: case.flowsheet, QUndoStack())
     qtbot.addWidget(pane)

@@ -15,7 +15,7 @@ ARGON = "Recycle gas.mole_fraction[argon]"
 
 
 def _open(window, example_path):
-    assert window.files.open_path(str(example_path("ammonia_synthesis_loop")))
+    assert window.files.open_path(str(example_path("ammonia_loop_fixed_split")))
     return window.case
 
 

@@ -55,7 +55,7 @@ def test_layout_menus_toolbar_choosers_and_caution_line(window):
     assert [combo.itemText(i) for i in range(combo.count())] == list(METHODS.values())
     units = window.actions.unit_combo
     assert [units.itemText(i) for i in range(units.count())] == list(UNIT_SYSTEMS)
-    assert window.shelf.count() == 8
+    assert window.shelf.count() == 9  # Flash drum included
     assert window.status.state() == "not solved"
     assert window.status.caution_label.isVisible()
     assert window.status.caution_label.full_text() == CAUTION_LINE
@@ -293,7 +293,7 @@ def test_a_late_stop_does_not_end_the_next_solve(qtbot, window, example_path):
 def test_a_run_whose_balances_do_not_close_is_shown_as_failed(qtbot, window, example_path):
     # Issue 15: stopping on the residual with q held within [-5, 0] meets the stopping
     # rule while the argon balance is still open; the window must not call it solved.
-    window.files.open_path(str(example_path("ammonia_synthesis_loop")))
+    window.files.open_path(str(example_path("ammonia_loop_fixed_split")))
     window.case.settings.update(stop_on="residual", adaptive_bounds=False, max_iterations=2000)
     press_f5_and_wait(qtbot, window)
     assert window.case.solution.status == "failed"

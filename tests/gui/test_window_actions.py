@@ -66,7 +66,7 @@ def test_export_from_the_file_menu_and_the_caution_line_after_a_solve(
 ):
     export = window.actions["export_csv"]
     assert not export.isEnabled()  # nothing solved yet
-    assert window.files.open_path(str(example_path("ammonia_synthesis_loop")))
+    assert window.files.open_path(str(example_path("ammonia_loop_fixed_split")))
     with qtbot.waitSignal(window.solver.finished, timeout=60000):
         window.actions["solve"].trigger()
     assert export.isEnabled()

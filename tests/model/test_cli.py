@@ -16,7 +16,9 @@ from model.report.cautions import CAUTIONS
 from units_of_measure import from_internal
 
 EXAMPLES = Path(__file__).resolve().parents[2] / "examples"
-AMMONIA = EXAMPLES / "ammonia_synthesis_loop.loop.json"
+# the typed-split variant: its Wegstein figures (6 iterations) are the ones checked here
+AMMONIA = EXAMPLES / "ammonia_loop_fixed_split.loop.json"
+FLASH_AMMONIA = EXAMPLES / "ammonia_synthesis_loop.loop.json"
 HYDRATION = EXAMPLES / "ethylene_hydration_two_recycles.loop.json"
 
 
@@ -186,7 +188,14 @@ def test_export_writes_the_stream_table_as_csv_with_a_caution_line(capsys, tmp_p
     )  # 10 significant digits
     assert by_label["Molar flow ethanol"][1] == "mol/s"
     assert by_label["Phase"][2:] == [s.phase for s in solution.streams.values()]
-    assert table_end == 2 + 5 + 2 * 3 + 1  # phase, T, P, total, mass; per component x2; H
+    # phase, T, P, total, mass, vapor fraction; per component x2; H; and, the case
+    # having a flash drum, bubble and dew points
+    assert table_end == 2 + 6 + 2 * 3 + 1 + 2
+    assert by_label["Dew point"][1] == "K" and by_label["Bubble point"][1] == "K"
+    assert by_label["Vapor fraction"][2:] == [
+        f"{s.vapor_fraction():.10g}" if s.total_molar_flow() > 0 else "0"
+        for s in solution.streams.values()
+    ]
     # below the stream table: every block result, then the closures
     blocks = rows[table_end + 1 :]
     assert blocks[:2] == [["Block results"], ["Block", "Kind", "Quantity", "Unit", "Value"]]
@@ -246,3 +255,20 @@ def test_export_of_an_unconverged_case_says_so_and_exits_with_1(capsys, tmp_path
     assert lines[1].startswith("# not converged: ")
     assert lines[2].startswith("Stream,,1,2,")
     assert lines[3].startswith("Quantity,Unit,")
+
+
+def test_solve_json_of_a_case_with_a_flash_drum_shows_vapor_fractions(capsys) -> None:
+    status, out, _ = _run(capsys, "solve", str(FLASH_AMMONIA), "--json")
+    assert status == 0
+    summary = json.loads(out)
+    streams = summary["streams"]
+    assert streams["Ammonia"]["vapor_fraction"] == 0.0
+    assert streams["Loop gas"]["vapor_fraction"] == 1.0
+    assert summary["converged"] is True
+    # the drum's computed split: most ammonia condenses, the light gases stay in the gas
+    ammonia = streams["Ammonia"]["molar_flows_mol_s"]
+    gas = streams["Loop gas"]["molar_flows_mol_s"]
+    assert ammonia["ammonia"] > 5 * gas["ammonia"] and gas["argon"] > 100 * ammonia["argon"]
+    # the drum's liquid leaves at its bubble point, its gas at its dew point (-10 degC)
+    assert streams["Ammonia"]["bubble_point_K"] == pytest.approx(263.15, rel=1e-9)
+    assert streams["Loop gas"]["dew_point_K"] == pytest.approx(263.15, rel=1e-9)

@@ -11,7 +11,7 @@ from model.flowsheet.spec_values import TypedQuantity
 from model.flowsheet.target_definition import Target, parse_result_address, parse_spec_address
 from tests.model.solve.ammonia_closed_form import example_loop
 
-EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "ammonia_synthesis_loop.loop.json"
+EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "ammonia_loop_fixed_split.loop.json"
 
 
 def _case_with_target(tmp_path: Path, wanted: float) -> Path:

@@ -124,7 +124,7 @@ def _problems(data: object) -> dict[str, str]:
 
 @pytest.fixture(scope="module")
 def ammonia_data() -> dict:
-    return json.loads((EXAMPLES / "ammonia_synthesis_loop.loop.json").read_text("utf-8"))
+    return json.loads((EXAMPLES / "ammonia_loop_fixed_split.loop.json").read_text("utf-8"))
 
 
 # ---- format and round trip ------------------------------------------------------------
@@ -605,7 +605,7 @@ def test_unwritable_folder_is_a_case_file_error(tmp_path: Path) -> None:
 def test_a_save_removes_temporaries_left_by_an_interrupted_save(tmp_path: Path) -> None:
     # Regression (issue 15): a save killed before its rename left ".NAME.*.tmp" beside
     # the case, and later saves never removed it.
-    case = load_case(EXAMPLES / "ammonia_synthesis_loop.loop.json")
+    case = load_case(EXAMPLES / "ammonia_loop_fixed_split.loop.json")
     path = tmp_path / "case.loop.json"
     stale = [tmp_path / ".case.loop.json.k2j4.tmp", tmp_path / ".case.loop.json.bak.9x1.tmp"]
     fresh = tmp_path / ".case.loop.json.now1.tmp"  # may be a save running right now

@@ -12,7 +12,7 @@ from model.errors import CaseFileError
 from model.flowsheet.spec_values import TypedQuantity
 from model.flowsheet.target_definition import Target, parse_result_address, parse_spec_address
 
-EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_synthesis_loop.loop.json"
+EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_loop_fixed_split.loop.json"
 
 
 def _argon_target() -> Target:

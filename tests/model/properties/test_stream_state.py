@@ -101,3 +101,26 @@ def test_flows_are_stored_as_a_float_array():
     stream = StreamState([1, 2, 3], T=300, P=1e5, phase="vapor")
     assert stream.flows.dtype == float
     assert stream.total_molar_flow() == 6.0
+
+
+def test_two_phase_stream_enthalpy_is_the_sum_of_its_phases():
+    # Each phase on the formation basis (the basis's own vapor and liquid enthalpies):
+    # a two-phase stream's enthalpy flow is the vapor's plus the liquid's.
+    basis = PropertyBasis([lookup_component("water"), lookup_component("methanol")])
+    flows = np.array([2.0, 1.0])
+    vapor = np.array([0.5, 0.75])
+    state = StreamState(flows, 340.0, 101325.0, "vapor", vapor_flows=vapor)
+    assert state.phase == "two-phase" and state.two_phase
+    assert state.vapor_fraction() == pytest.approx(1.25 / 3.0, rel=1e-15)
+    expected = basis.stream_enthalpy_flow(vapor, 340.0, False) + basis.stream_enthalpy_flow(
+        flows - vapor, 340.0, True
+    )
+    assert state.enthalpy_flow(basis) == pytest.approx(expected, rel=1e-13)
+    state.validate("Stream 1", basis)
+    copied = state.copy()
+    assert copied.vapor_flows is not state.vapor_flows
+    assert copied.vapor_flows.tolist() == vapor.tolist() and copied.phase == "two-phase"
+    assert StreamState(flows, 340.0, 101325.0, "liquid").vapor_fraction() == 0.0
+    assert StreamState(flows, 340.0, 101325.0, "vapor").vapor_fraction() == 1.0
+    with pytest.raises(InputError, match="vapor_flows"):
+        StreamState(flows, 340.0, 1e5, "vapor", vapor_flows=np.array([3.0, 0.0])).validate("S")

@@ -17,7 +17,7 @@ from model.flowsheet.target_definition import Target, parse_result_address, pars
 from model.solve.targets import solve_with_targets
 from tests.model.solve.ammonia_closed_form import example_loop
 
-EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_synthesis_loop.loop.json"
+EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_loop_fixed_split.loop.json"
 KMOL_H = 1000.0 / 3600.0  # mol/s per kmol/h (NIST SP 811: 1 h = 3600 s)
 
 

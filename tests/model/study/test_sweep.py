@@ -17,7 +17,7 @@ from model.study.sweep_definition import SweepPlan, parse_record, parse_variatio
 from model.study.sweep_run import run_sweep
 from tests.model.solve.ammonia_closed_form import example_loop
 
-EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_synthesis_loop.loop.json"
+EXAMPLE = Path(__file__).resolve().parents[3] / "examples" / "ammonia_loop_fixed_split.loop.json"
 ARGON = "Recycle gas.mole_fraction[argon]"
 
 
