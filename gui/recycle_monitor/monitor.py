@@ -53,8 +53,9 @@ def _part_text(record: Any) -> str:
 
 
 def suggested_bounds_for(diagnoses: dict[str, TearDiagnosis]) -> tuple[float, float] | None:
-    """Bounds admitting every blocked tear's suggested q (None if no tear is blocked)."""
-    blocked = [d for d in diagnoses.values() if d.blocked_by_bounds]
+    """Bounds admitting every blocked tear's suggested q, and keeping the widening a run
+    made by itself (None if the settings' bounds stop no tear)."""
+    blocked = [d for d in diagnoses.values() if d.blocked_by_bounds or d.widened_by_run]
     if not blocked:
         return None
     return (
