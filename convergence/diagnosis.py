@@ -97,7 +97,7 @@ def _rate(history: ConvergenceHistory, tear: str, slope: float) -> float:
     On a quasi-Newton run, or with no slope, it is unknown (nan).
     """
     for record in reversed(history.records):
-        if record.step == "direct":
+        if record.step in ("direct", "fallback"):
             return slope
         if record.step == "accelerated":
             q = record.q[tear].median

@@ -72,8 +72,10 @@ def test_monotonic_tear_blocked_by_q_min():
 def test_following_the_advice_converges_a_diverging_tear():
     # Slope -1.5: direct substitution diverges (|s| > 1); q = 0.6 would fix it.
     problem = _linear_tears({"S4": -1.5, "S5": 0.5})
-    # At the fixed default bounds (adaptive bounds would find q = 0.6 by themselves).
-    first = solve_fixed_point(problem, "wegstein", SolverSettings(adaptive_bounds=False))
+    # At the fixed default bounds (adaptive bounds would find q = 0.6 by themselves), with
+    # no fallback to direct substitution (which diverges here too, but later).
+    settings = SolverSettings(adaptive_bounds=False, fallback=False)
+    first = solve_fixed_point(problem, "wegstein", settings)
     assert first.status == "diverging"
     diagnosis = first.diagnosis["S4"]
     assert not diagnosis.converging and diagnosis.pattern == "oscillating"
