@@ -32,6 +32,11 @@ class SettingsSnapshot:
     direct_steps
         Direct-substitution steps before the first accelerated step (at least 1, since a
         slope needs two evaluations).
+    early_acceleration
+        With ``direct_steps`` 2, a Wegstein run accelerates already at iteration 2 when
+        the first direct step cut the largest scaled residual to less than half (the
+        first step shows a contracting loop, whose slope one step measures); otherwise it
+        waits for the second (see :class:`convergence.steps.BoundedWegstein`).
     acceleration_interval
         After the first acceleration, accelerate every k-th iteration; the others are
         direct-substitution steps.
@@ -81,6 +86,7 @@ class SettingsSnapshot:
     q_min: float = -5.0
     q_max: float = 0.0
     direct_steps: int = 2
+    early_acceleration: bool = True
     acceleration_interval: int = 1
     q_mode: str = "bounded"
     tolerance: float = 1e-8
@@ -142,7 +148,7 @@ def _checked(values: dict[str, Any]) -> dict[str, Any]:
         checked[name] = _as_int(name, values[name], minimum)
     if checked["stop_on"] not in STOP_RULES:
         raise ConvergenceInputError("stop_on", values["stop_on"], f"one of {list(STOP_RULES)}")
-    for name in ("adaptive_bounds", "dominant_slope", "fallback"):
+    for name in ("adaptive_bounds", "dominant_slope", "fallback", "early_acceleration"):
         if not isinstance(checked[name], bool):
             raise ConvergenceInputError(name, values[name], "True or False")
     if checked["q_mode"] not in Q_MODES:
