@@ -166,6 +166,8 @@ class RecycleMonitor(QWidget):
         for event in result.history.events:
             if event.kind == "settings changed":
                 self.plots.add_marker(event.iteration, event.detail.split(": ", 1)[-1])
+            elif event.kind == "fallback":
+                self.plots.add_marker(event.iteration, "fallback to direct substitution")
         self.redraw()
         diagnoses = dict(result.diagnosis) or self._live_diagnosis()
         parts = {part_of(record) for record in result.history.records} - {""}
@@ -180,7 +182,8 @@ class RecycleMonitor(QWidget):
 
     @staticmethod
     def _run_html(result: Any) -> str:
-        """The run's message and the settings changes made during it."""
+        """The run's message, the settings changes made during it and any fallback to
+        direct substitution (:mod:`convergence.fallback`)."""
         text = f"<p>{html.escape(result.message)}</p>"
         changes = result.history.events_of("settings changed")
         if changes:
@@ -192,6 +195,8 @@ class RecycleMonitor(QWidget):
                 )
                 + "</p>"
             )
+        for event in result.history.events_of("fallback"):
+            text += f"<p>Fallback at iteration {event.iteration}: {html.escape(event.detail)}</p>"
         return text
 
     def show_history(self, result: Any) -> None:

@@ -177,3 +177,19 @@ def test_live_diagnosis_of_a_part_by_part_solve_takes_each_tear_from_its_own_par
             assert live[tear].slope == own[tear].slope and live[tear].advice == own[tear].advice
     monitor.end_run(solution.convergence, solution.block_evaluations)
     assert set(monitor.plots.series) == set(solution.tear_streams)
+
+
+def test_a_fallback_is_shown_in_the_run_text(qtbot, monitor):
+    # A coupled affine map on which per-variable held q diverges while direct
+    # substitution converges (tests/convergence/test_robustness.py): the run falls back.
+    from tests.convergence.problems import wide_map
+
+    g, x0 = wide_map()
+    problem = FixedPointProblem(g=g, x0=x0, tear_slices={"W": slice(0, x0.size)})
+    settings = SolverSettings(q_mode="held", max_iterations=500)
+    monitor.bind_settings(settings)
+    monitor.begin_run()
+    result = solve_fixed_point(problem, "wegstein", settings, monitor.add_record)
+    monitor.end_run(result)
+    assert result.converged and result.history.events_of("fallback")
+    assert "Fallback at iteration" in monitor.diagnosis_view.toPlainText()
