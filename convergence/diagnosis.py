@@ -46,9 +46,13 @@ class TearDiagnosis:
         q bounds that admit ``suggested_q`` with a margin; the current bounds if they
         already do.
     blocked_by_bounds
-        ``suggested_q`` lies outside the q bounds in force.
+        ``suggested_q`` lies outside the q bounds in force (the settings' bounds as the
+        run's adaptive bounds last widened them, :func:`bounds_in_force`).
     advice
         The above in plain words.
+    widened_by_run
+        The settings' q bounds stop ``suggested_q`` but the run's adaptive bounds had
+        widened them to admit it (``suggested_bounds`` would keep that widening).
     residual_ratio
         Average factor by which the tear's residual changed per iteration over the last
         few iterations (nan if unknown).
@@ -66,6 +70,7 @@ class TearDiagnosis:
     suggested_bounds: tuple[float, float]
     blocked_by_bounds: bool
     advice: str
+    widened_by_run: bool = False
     residual_ratio: float = math.nan
     direct_substitution_converges: bool = False
     rate: float = math.nan
@@ -92,7 +97,7 @@ def _rate(history: ConvergenceHistory, tear: str, slope: float) -> float:
     On a quasi-Newton run, or with no slope, it is unknown (nan).
     """
     for record in reversed(history.records):
-        if record.step == "direct":
+        if record.step in ("direct", "fallback"):
             return slope
         if record.step == "accelerated":
             q = record.q[tear].median
@@ -131,6 +136,23 @@ def _format_q(q: float) -> str:
     return f"{q:.0f}" if abs(q) >= 10.0 else f"{q:.2f}"
 
 
+def bounds_in_force(history: ConvergenceHistory, settings: SettingsSnapshot) -> tuple[float, float]:
+    """The q bounds the run last used: the settings' bounds, widened where the run's
+    adaptive bounds (:mod:`convergence.adaptive`) widened them under the same settings.
+
+    A widening lasts for the run, so advice to widen a bound the run already widened
+    would be stale; a user's change of q_min or q_max replaces every widening, so only
+    records made under the settings' present bounds count.
+    """
+    q_min, q_max = settings.q_min, settings.q_max
+    for record in reversed(history.records):
+        if (record.settings.q_min, record.settings.q_max) != (q_min, q_max):
+            break
+        if record.q_bounds is not None:
+            return (min(q_min, record.q_bounds[0]), max(q_max, record.q_bounds[1]))
+    return (q_min, q_max)
+
+
 def _advice(
     pattern: str,
     converging: bool,
@@ -138,6 +160,7 @@ def _advice(
     q: float,
     bounds: tuple[float, float],
     settings: SettingsSnapshot,
+    in_force: tuple[float, float],
 ) -> str:
     if not math.isfinite(slope):
         return "unknown: too few iterations (or steps too small) to estimate a slope"
@@ -147,19 +170,23 @@ def _advice(
         head += " (direct substitution diverges)"
     if not math.isfinite(q):
         return f"{head}: no finite q helps; the loop does not damp itself (is there a purge?)"
-    if settings.q_min <= q <= settings.q_max:
-        return (
-            f"{head}: q ≈ {_format_q(q)} would help; it is within the q bounds "
-            f"[{settings.q_min:g}, {settings.q_max:g}]"
+    low, high = in_force
+    if low <= q <= high:
+        widened = (low, high) != (settings.q_min, settings.q_max)
+        return f"{head}: q ≈ {_format_q(q)} would help; it is within the q bounds " + (
+            f"[{low:g}, {high:g}] the run widened itself to (settings [{settings.q_min:g}, "
+            f"{settings.q_max:g}])"
+            if widened
+            else f"[{low:g}, {high:g}]"
         )
-    if q > settings.q_max:
+    if q > high:
         return (
-            f"{head}: q ≈ {_format_q(q)} would help; q_max = {settings.q_max:g} stops it; "
-            f"try q_max = {bounds[1]:g}"
+            f"{head}: q ≈ {_format_q(q)} would help; q_max = {high:g} stops it; "
+            f"try q_max = {max(bounds[1], suggested_bounds(q, low, high)[1]):g}"
         )
     return (
-        f"{head}: q ≈ {_format_q(q)} would help; q_min = {settings.q_min:g} stops it; "
-        f"try q_min = {bounds[0]:g}"
+        f"{head}: q ≈ {_format_q(q)} would help; q_min = {low:g} stops it; "
+        f"try q_min = {min(bounds[0], suggested_bounds(q, low, high)[0]):g}"
     )
 
 
@@ -181,7 +208,8 @@ def _diagnose_one(
     else:
         pattern = "oscillating" if slope < 0.0 else "monotonic"
         q = slope / (slope - 1.0) if slope != 1.0 else -math.inf
-    blocked = bool(math.isfinite(slope) and not settings.q_min <= q <= settings.q_max)
+    in_force = bounds_in_force(history, settings)
+    blocked = bool(math.isfinite(slope) and not in_force[0] <= q <= in_force[1])
     bounds = suggested_bounds(q, settings.q_min, settings.q_max)
     return TearDiagnosis(
         tear=tear,
@@ -191,7 +219,10 @@ def _diagnose_one(
         suggested_q=q,
         suggested_bounds=bounds,
         blocked_by_bounds=blocked,
-        advice=_advice(pattern, converging, slope, q, bounds, settings),
+        advice=_advice(pattern, converging, slope, q, bounds, settings, in_force),
+        widened_by_run=bool(
+            math.isfinite(slope) and not blocked and not settings.q_min <= q <= settings.q_max
+        ),
         residual_ratio=ratio,
         direct_substitution_converges=bool(math.isfinite(slope) and abs(slope) < 1.0),
         rate=rate,

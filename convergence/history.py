@@ -89,7 +89,8 @@ class IterationRecord:
         Per tear, the dominant slope of g along the last step (``None`` at the first
         iteration or when the step was too small).
     step
-        ``"direct"``, ``"accelerated"``, ``"quasi-Newton"`` or ``"none"``.
+        ``"direct"``, ``"accelerated"``, ``"quasi-Newton"``, ``"fallback"`` (back to the
+        best point, :mod:`convergence.fallback`) or ``"none"``.
     worst_variable
         Name of the variable with the largest scaled residual.
     estimated_errors

@@ -32,6 +32,11 @@ class SettingsSnapshot:
     direct_steps
         Direct-substitution steps before the first accelerated step (at least 1, since a
         slope needs two evaluations).
+    early_acceleration
+        With ``direct_steps`` 2, a Wegstein run accelerates already at iteration 2 when
+        the first direct step cut the largest scaled residual to less than half (the
+        first step shows a contracting loop, whose slope one step measures); otherwise it
+        waits for the second (see :class:`convergence.steps.BoundedWegstein`).
     acceleration_interval
         After the first acceleration, accelerate every k-th iteration; the others are
         direct-substitution steps.
@@ -64,6 +69,13 @@ class SettingsSnapshot:
         more than 20 % since the last step (it is driven by other variables of its
         tear) takes q from its tear's dominant slope instead (see
         :mod:`convergence.coupling`).
+    fallback, fallback_factor
+        Safeguard of an accelerated run (Wegstein, Broyden): once its residual, on the
+        best iterate's scale, exceeds ``fallback_factor`` times the best seen, the run
+        goes back to the best point and takes direct-substitution steps from there for
+        the rest of the run (a "fallback" step and event in the history), so that it
+        converges wherever direct substitution does instead of being reported
+        diverging (see :mod:`convergence.fallback`).
     divergence_factor, divergence_patience
         A run whose residual stays above ``divergence_factor`` times the best seen for
         ``divergence_patience`` iterations in a row is reported as diverging.
@@ -74,6 +86,7 @@ class SettingsSnapshot:
     q_min: float = -5.0
     q_max: float = 0.0
     direct_steps: int = 2
+    early_acceleration: bool = True
     acceleration_interval: int = 1
     q_mode: str = "bounded"
     tolerance: float = 1e-8
@@ -81,6 +94,8 @@ class SettingsSnapshot:
     stop_on: str = "estimated error"
     adaptive_bounds: bool = True
     dominant_slope: bool = True
+    fallback: bool = True
+    fallback_factor: float = 100.0
     divergence_factor: float = 1e4
     divergence_patience: int = 5
     version: int = 0
@@ -101,7 +116,7 @@ class SettingsSnapshot:
 SETTING_NAMES: tuple[str, ...] = tuple(
     field.name for field in dataclasses.fields(SettingsSnapshot) if field.name != "version"
 )
-_FLOAT_SETTINGS = ("q_min", "q_max", "tolerance", "divergence_factor")
+_FLOAT_SETTINGS = ("q_min", "q_max", "tolerance", "fallback_factor", "divergence_factor")
 _INT_MINIMUMS = {
     "direct_steps": 1,
     "acceleration_interval": 1,
@@ -133,7 +148,7 @@ def _checked(values: dict[str, Any]) -> dict[str, Any]:
         checked[name] = _as_int(name, values[name], minimum)
     if checked["stop_on"] not in STOP_RULES:
         raise ConvergenceInputError("stop_on", values["stop_on"], f"one of {list(STOP_RULES)}")
-    for name in ("adaptive_bounds", "dominant_slope"):
+    for name in ("adaptive_bounds", "dominant_slope", "fallback", "early_acceleration"):
         if not isinstance(checked[name], bool):
             raise ConvergenceInputError(name, values[name], "True or False")
     if checked["q_mode"] not in Q_MODES:
@@ -144,6 +159,8 @@ def _checked(values: dict[str, Any]) -> dict[str, Any]:
         )
     if checked["tolerance"] <= 0.0:
         raise ConvergenceInputError("tolerance", values["tolerance"], "a number > 0")
+    if checked["fallback_factor"] <= 1.0:
+        raise ConvergenceInputError("fallback_factor", values["fallback_factor"], "a number > 1")
     if checked["divergence_factor"] <= 1.0:
         raise ConvergenceInputError(
             "divergence_factor", values["divergence_factor"], "a number > 1"

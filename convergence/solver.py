@@ -15,6 +15,7 @@ import numpy as np
 from convergence.broyden import BroydenSteps
 from convergence.diagnosis import TearDiagnosis, diagnose_tears
 from convergence.errors import ConvergenceInputError
+from convergence.fallback import Fallback
 from convergence.history import ConvergenceHistory, Event, IterationRecord, QStats
 from convergence.points import Evaluated, Step
 from convergence.problem import FixedPointProblem, TearLayout
@@ -152,6 +153,7 @@ class _Run:
         self.callback = callback
         self.history = ConvergenceHistory()
         self.watch = _DivergenceWatch(layout)
+        self.fallback = Fallback()
         self.errors = ErrorEstimator(layout.tears)
         self.evaluations = 0
 
@@ -243,7 +245,10 @@ class _Run:
             if ending is not None:
                 status, message, largest = ending
                 return self._finish(status, message, point, settings, largest)
-            if step.note:
+            if step.kind == "fallback":
+                self._event(iteration, "fallback", step.note)
+                self.rule = DirectSubstitution(self.layout)
+            elif step.note:
                 self._event(iteration, "restart", step.note)
             if step.bounds_note:
                 self._event(iteration, "settings changed", step.bounds_note)
@@ -276,7 +281,8 @@ class _Run:
         diverging = not converged and self.watch.diverging(point, largest, settings)
         step = None
         if not (converged or diverging or point.iteration >= settings.max_iterations):
-            step = self.rule.next_point(point, settings)
+            step = self._next_step(point, settings)
+        self.fallback.observe(point, largest)
         record = self._record(point, worst, (scaled, slopes, estimated_errors), step, settings)
         self.history.records.append(record)
         stop_asked = self.callback is not None and self.callback(record) is True
@@ -314,6 +320,16 @@ class _Run:
             )
             return ("not finite", message, figures), None
         return None, step
+
+    def _next_step(self, point: Evaluated, settings: SettingsSnapshot) -> Step:
+        """The rule's step, or the fallback to the best point (:mod:`convergence.fallback`)."""
+        if self.method != "direct":
+            fallback = self.fallback.step(point, settings)
+            if fallback is not None:
+                step, note = fallback
+                step.note = note
+                return step
+        return self.rule.next_point(point, settings)
 
     def _converged_message(
         self, point: Evaluated, figures: tuple[float, float], settings: SettingsSnapshot
@@ -386,8 +402,8 @@ def solve_fixed_point(
     ...     variable_names=["S7 flow", "S7 T"])
     >>> settings = SolverSettings(q_min=-20.0, q_max=0.9, tolerance=1e-10)
     >>> result = solve_fixed_point(problem, "wegstein", settings)
-    >>> result.status, result.iterations
-    ('converged', 4)
+    >>> result.status, result.iterations  # one direct step showed a contracting loop
+    ('converged', 3)
     >>> np.round(result.x, 6)
     array([100., 400.])
     >>> result.diagnosis["S7"].pattern

@@ -54,8 +54,9 @@ def _part_text(record: Any) -> str:
 
 
 def suggested_bounds_for(diagnoses: dict[str, TearDiagnosis]) -> tuple[float, float] | None:
-    """Bounds admitting every blocked tear's suggested q (None if no tear is blocked)."""
-    blocked = [d for d in diagnoses.values() if d.blocked_by_bounds]
+    """Bounds admitting every blocked tear's suggested q, and keeping the widening a run
+    made by itself (None if the settings' bounds stop no tear)."""
+    blocked = [d for d in diagnoses.values() if d.blocked_by_bounds or d.widened_by_run]
     if not blocked:
         return None
     return (
@@ -193,6 +194,8 @@ class RecycleMonitor(QWidget):
         for event in result.history.events:
             if event.kind == "settings changed":
                 self.plots.add_marker(event.iteration, event.detail.split(": ", 1)[-1])
+            elif event.kind == "fallback":
+                self.plots.add_marker(event.iteration, "fallback to direct substitution")
         self.redraw()
         diagnoses = dict(result.diagnosis) or self._live_diagnosis()
         parts = {part_of(record) for record in result.history.records} - {""}
@@ -207,7 +210,8 @@ class RecycleMonitor(QWidget):
 
     @staticmethod
     def _run_html(result: Any) -> str:
-        """The run's message and the settings changes made during it."""
+        """The run's message, the settings changes made during it and any fallback to
+        direct substitution (:mod:`convergence.fallback`)."""
         text = f"<p>{html.escape(result.message)}</p>"
         changes = result.history.events_of("settings changed")
         if changes:
@@ -219,6 +223,8 @@ class RecycleMonitor(QWidget):
                 )
                 + "</p>"
             )
+        for event in result.history.events_of("fallback"):
+            text += f"<p>Fallback at iteration {event.iteration}: {html.escape(event.detail)}</p>"
         return text
 
     def show_history(self, result: Any) -> None:

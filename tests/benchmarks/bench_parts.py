@@ -10,7 +10,9 @@ and settings (iteration limit at least 3 per loop), in the same run.
 Cases: generated chains of 10, 30 and 100 loops of 10 blocks in series, 20 components
 (:func:`tests.benchmarks.flowsheet_generator.generate_flowsheet`; quick: 10 and 30),
 with the slowest loop of each also solved alone (:func:`tests.benchmarks.loop_alone.loop_alone`);
-and every case of :mod:`tests.benchmarks.recycle_cases`. Block evaluations before are
+and every case of :mod:`tests.benchmarks.recycle_cases`. Then direct substitution
+against the default on chains of 8, 9, 10 and 12-block loops
+(:func:`never_worse_than_direct`). Block evaluations before are
 passes times blocks. Times are best of a few runs, as ratios after / before.
 
 Run: ``python -m tests.benchmarks.bench_parts [--quick]``.
@@ -112,6 +114,27 @@ def _print(rows: list[dict]) -> None:
             )
 
 
+def never_worse_than_direct(loop_counts: tuple[int, ...]) -> list[dict]:
+    """Direct substitution against the default on chains of several loop lengths (8, 9,
+    10 and 12 blocks, 20 components): the default must converge wherever direct
+    substitution does (issue 14, item 2)."""
+    rows = []
+    for loops in loop_counts:
+        for size in (8, 9, 10, 12):
+            sheet = generate_flowsheet(2 + size * loops, loops, 20)
+            row = {"loops": loops, "size": size}
+            for method in ("direct", "wegstein"):
+                solution = solve_flowsheet(sheet, method, _settings(loops))
+                row[method] = (solution.status, solution.passes, solution.block_evaluations)
+            row["rule holds"] = row["direct"][0] != "solved" or row["wegstein"][0] == "solved"
+            print(
+                f"chain of {loops} loops of {size} blocks: direct {row['direct']}, "
+                f"default {row['wegstein']}, rule holds: {row['rule holds']}"
+            )
+            rows.append(row)
+    return rows
+
+
 def main(quick: bool = False) -> dict:
     """Measure every case (see the module docstring); return the figures."""
     repeats = 1 if quick else 3
@@ -120,7 +143,8 @@ def main(quick: bool = False) -> dict:
         row, _ = _row(name, build_case(name), 1, repeats)
         rows.append(row)
     _print(rows)
-    return {"rows": rows}
+    rule = never_worse_than_direct((10, 30) if quick else (10, 30, 100))
+    return {"rows": rows, "never worse than direct": rule}
 
 
 if __name__ == "__main__":

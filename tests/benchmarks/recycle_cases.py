@@ -16,6 +16,7 @@ steady-state balance written beside each builder; :data:`CASES` maps a case name
 | direct substitution oscillates | 1 | -0.73 |
 | direct substitution diverges | 1 | about 1.1 (a fixed purge flow) |
 | direct substitution diverges, oscillating | 1 | -1.25 |
+| reversible isomerisation, both isomers recycled | 1 | 0.9 and 0.1 (coupled, see below) |
 """
 
 from __future__ import annotations
@@ -334,6 +335,34 @@ def fixed_purge_flow() -> Flowsheet:
     return sheet
 
 
+def reversible_isomerisation() -> Flowsheet:
+    """n-butane <-> isobutane at fixed conversions 2/3 each way, 90 % of the cooled
+    effluent recycled: the tear's two flows are coupled.
+
+    Per pass, with a = b = 2/3 (A -> B of A, then B -> A of B, in order) and the
+    recycle fraction r = 0.9, the recycle (A, B) is multiplied by
+    r [[1 - a + ab, b], [a (1 - b), 1 - b]]: a matrix whose columns sum to 1, with
+    eigenvalues r = 0.9 (the total flow) and r (1 - a)(1 - b) = 0.1 (the split between
+    the isomers). Neither flow follows a slope of its own.
+    """
+    sheet = _sheet(["n-butane", "isobutane"])
+    _feed(sheet, "Feed", {"n-butane": 10.0, "isobutane": 1.0}, 350.0, 5.0)
+    _block(sheet, "Mixer", "Mixer")
+    forward = Reaction(ISOMERISATION, "n-butane", 2.0 / 3.0, "isomerisation")
+    backward = Reaction({"isobutane": -1.0, "n-butane": 1.0}, "isobutane", 2.0 / 3.0, "reverse")
+    _reactor(sheet, "Reactor", [forward, backward], 420.0)
+    _block(sheet, "Heater", "Cooler", T=TypedQuantity(330.0, "K"))
+    _block(sheet, "Splitter", "Splitter", fractions={"out1": 0.9})
+    _block(sheet, "Product", "Product")
+    _connect(sheet, "Feed.out", "Mixer.in1", "feed")
+    _connect(sheet, "Mixer.out", "Reactor.in", "reactor feed")
+    _connect(sheet, "Reactor.out", "Cooler.in", "effluent")
+    _connect(sheet, "Cooler.out", "Splitter.in", "cooled effluent")
+    _connect(sheet, "Splitter.out1", "Mixer.in2", "recycle")
+    _connect(sheet, "Splitter.out2", "Product.in", "product")
+    return sheet
+
+
 CASES: dict[str, tuple[Callable[[], Flowsheet], str]] = {
     "single loop, recycle 0.5": (lambda: single_loop(0.5), "slope 0.5"),
     "single loop, recycle 0.9": (lambda: single_loop(0.9), "slope 0.9"),
@@ -350,6 +379,10 @@ CASES: dict[str, tuple[Callable[[], Flowsheet], str]] = {
     "direct substitution diverges, oscillating": (
         lambda: competing_ethylene(0.85),
         "slope -1.25",
+    ),
+    "reversible isomerisation": (
+        reversible_isomerisation,
+        "coupled tear: eigenvalues 0.9 and 0.1",
     ),
 }
 

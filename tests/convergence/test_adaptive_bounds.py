@@ -39,10 +39,14 @@ def test_slow_affine_loop_is_exact_once_its_bound_is_widened():
     assert record.q["S1"].clipped_low == 0
     [event] = result.history.events_of("settings changed")
     assert event.iteration == 3 and event.detail.startswith("adaptive bounds: q_min -5 -> -12")
-    # The run's widening is its own: the settings object and the diagnosis are the user's.
+    # The run's widening is its own: the settings object stays the user's. The diagnosis
+    # judges against the bounds the run used, so it does not blame q_min = -5 for a step
+    # the run already took at q = -9; it still suggests q_min = -12 for the settings.
     assert (settings.q_min, settings.version) == (-5.0, 0)
-    assert result.diagnosis["S1"].blocked_by_bounds
-    assert "q_min = -5 stops it" in result.diagnosis["S1"].advice
+    diagnosis = result.diagnosis["S1"]
+    assert not diagnosis.blocked_by_bounds and "stops it" not in diagnosis.advice
+    assert "the run widened itself to" in diagnosis.advice
+    assert diagnosis.suggested_bounds == (-12.0, 0.0)
 
 
 @pytest.mark.parametrize(("slope", "bound"), [(-1.5, "q_max"), (-3.0, "q_max"), (0.98, "q_min")])

@@ -35,7 +35,9 @@ def _linear_tears(slopes: dict[str, float], size: int = 3) -> FixedPointProblem:
 def test_oscillating_tear_blocked_by_q_max():
     # Slope -0.7: q = 0.7/1.7 = 0.4118 would help; the default q_max = 0 forbids it
     # (the example of issue 3 and DESIGN.md, "Recycles").
-    result = solve_fixed_point(_linear_tears({"S7": -0.7}), "wegstein", SolverSettings())
+    # Fixed bounds: with adaptive bounds the run widens q_max by itself.
+    settings = SolverSettings(adaptive_bounds=False)
+    result = solve_fixed_point(_linear_tears({"S7": -0.7}), "wegstein", settings)
     diagnosis = result.diagnosis["S7"]
     assert diagnosis.pattern == "oscillating" and diagnosis.converging
     assert diagnosis.slope == pytest.approx(-0.7, abs=1e-9)
@@ -70,8 +72,10 @@ def test_monotonic_tear_blocked_by_q_min():
 def test_following_the_advice_converges_a_diverging_tear():
     # Slope -1.5: direct substitution diverges (|s| > 1); q = 0.6 would fix it.
     problem = _linear_tears({"S4": -1.5, "S5": 0.5})
-    # At the fixed default bounds (adaptive bounds would find q = 0.6 by themselves).
-    first = solve_fixed_point(problem, "wegstein", SolverSettings(adaptive_bounds=False))
+    # At the fixed default bounds (adaptive bounds would find q = 0.6 by themselves), with
+    # no fallback to direct substitution (which diverges here too, but later).
+    settings = SolverSettings(adaptive_bounds=False, fallback=False)
+    first = solve_fixed_point(problem, "wegstein", settings)
     assert first.status == "diverging"
     diagnosis = first.diagnosis["S4"]
     assert not diagnosis.converging and diagnosis.pattern == "oscillating"

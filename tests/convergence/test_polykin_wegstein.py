@@ -68,6 +68,7 @@ def _both(g, x0, *, wait=1, qmin=-5.0, qmax=0.0, tolx=1e-6, maxiter=50):
         stop_on="residual",
         adaptive_bounds=False,
         dominant_slope=False,
+        early_acceleration=False,  # polykin waits ``wait`` steps whatever they show
     )
     ours = solve_fixed_point(problem, "wegstein", settings)
     return reference, polykin_points, ours, our_points

@@ -81,13 +81,22 @@ def test_divergence_patience_and_factor_are_honoured():
 
 def test_held_q_that_misfits_a_coupled_map_is_reported_as_diverging():
     # Held q is estimated per variable from the first steps and ignores coupling; on
-    # this coupled map it diverges (bounded mode re-estimates q and converges).
+    # this coupled map it diverges (bounded mode re-estimates q and converges). With the
+    # fallback (the default) the held run goes back to its best point and converges by
+    # direct substitution, which converges on this map.
     g, x0 = wide_map()
     problem = FixedPointProblem(g=g, x0=x0, tear_slices={"W": slice(0, x0.size)})
-    held = solve_fixed_point(problem, "wegstein", SolverSettings(q_mode="held"))
+    held = solve_fixed_point(problem, "wegstein", SolverSettings(q_mode="held", fallback=False))
     bounded = solve_fixed_point(problem, "wegstein", SolverSettings(max_iterations=500))
     assert held.status == "diverging"
     assert bounded.converged
+    direct = solve_fixed_point(problem, "direct", SolverSettings(max_iterations=500))
+    safeguarded = solve_fixed_point(
+        problem, "wegstein", SolverSettings(q_mode="held", max_iterations=500)
+    )
+    assert direct.converged and safeguarded.converged
+    [event] = safeguarded.history.events_of("fallback")
+    assert safeguarded.history.records[event.iteration - 1].step == "fallback"
 
 
 def test_iteration_limit_is_a_result_not_an_exception():

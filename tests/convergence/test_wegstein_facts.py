@@ -54,7 +54,9 @@ def test_first_accelerated_step_is_exact_per_variable():
     problem = FixedPointProblem(
         g=g, x0=np.full(len(SLOPES), 0.5), tear_slices={"S1": slice(0, len(SLOPES))}
     )
-    settings = SolverSettings(q_min=-60.0, q_max=60.0, direct_steps=2, tolerance=1e-12)
+    settings = SolverSettings(
+        q_min=-60.0, q_max=60.0, direct_steps=2, early_acceleration=False, tolerance=1e-12
+    )
     result, points = _recorded_run(problem, "wegstein", settings)
     np.testing.assert_allclose(points[3], fixed_point, rtol=1e-12)
     assert result.converged and result.iterations == 4
@@ -126,7 +128,11 @@ def test_tighter_tolerance_gives_smaller_final_residual(method):
 
 def test_acceleration_interval_alternates_steps():
     settings = SolverSettings(
-        direct_steps=2, acceleration_interval=3, tolerance=1e-14, max_iterations=12
+        direct_steps=2,
+        acceleration_interval=3,
+        tolerance=1e-14,
+        max_iterations=12,
+        early_acceleration=False,
     )
     result = solve_fixed_point(reactor_problem(), "wegstein", settings)
     kinds = [record.step for record in result.history.records]
@@ -171,7 +177,31 @@ def test_held_q_is_estimated_from_the_direct_steps_then_held():
 def test_held_q_on_affine_map_is_exact():
     g, fixed_point = _affine([0.5, -0.7, 0.9], [1.0, 2.0, 3.0])
     problem = FixedPointProblem(g=g, x0=np.ones(3), tear_slices={"S1": slice(0, 3)})
-    settings = SolverSettings(q_mode="held", direct_steps=2, q_min=-10.0, q_max=1.0)
+    settings = SolverSettings(
+        q_mode="held", direct_steps=2, q_min=-10.0, q_max=1.0, early_acceleration=False
+    )
     result = solve_fixed_point(problem, "wegstein", settings)
     assert result.converged and result.iterations == 4
     np.testing.assert_allclose(result.x, fixed_point, rtol=1e-12)
+
+
+def test_early_acceleration_after_one_direct_step_that_contracts():
+    # x = 0.3 x + 1 from 0: the first direct step cuts the scaled residual from 1/floor
+    # to 0.3 (ratio far below 0.5), so iteration 2 is accelerated, and for an
+    # affine map that step is exact (Wegstein 1958): 3 iterations instead of 4.
+    g, fixed_point = _affine([0.3], [1.0])
+    problem = FixedPointProblem(g=g, x0=np.array([0.0]), tear_slices={"S1": slice(0, 1)})
+    early = solve_fixed_point(problem, "wegstein", SolverSettings(tolerance=1e-12))
+    assert [r.step for r in early.history.records] == ["direct", "accelerated", "none"]
+    np.testing.assert_allclose(early.x, fixed_point, rtol=1e-12)
+    late = solve_fixed_point(
+        problem, "wegstein", SolverSettings(tolerance=1e-12, early_acceleration=False)
+    )
+    assert late.iterations == early.iterations + 1
+    # Slope 0.8 from 10 (fixed point 5): scaled residuals 1/10, then 0.8/9, a ratio of
+    # 0.89, so both direct steps are taken.
+    slow = FixedPointProblem(
+        g=_affine([0.8], [1.0])[0], x0=np.array([10.0]), tear_slices={"S1": slice(0, 1)}
+    )
+    steps = [r.step for r in solve_fixed_point(slow, "wegstein").history.records]
+    assert steps[:3] == ["direct", "direct", "accelerated"]

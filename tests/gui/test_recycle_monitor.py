@@ -135,7 +135,9 @@ def test_diagnosis_of_a_real_run_and_apply_suggested_bounds(qtbot, monitor):
     result = solve_fixed_point(problem, "wegstein", settings, monitor.add_record)
     monitor.end_run(result)
     text = monitor.diagnosis_view.toPlainText()
-    assert "loop" in text and "q_min = -5 stops it" in text
+    # The run widened q_min to -12 by itself (adaptive bounds): the advice does not blame
+    # q_min = -5, and the button offers to keep the widening in the settings.
+    assert "loop" in text and "the run widened itself to" in text and "stops it" not in text
     low, high = monitor.suggestion()
     assert low < -9.0 <= high
     with qtbot.waitSignal(monitor.bounds_applied) as signal:
@@ -175,3 +177,19 @@ def test_live_diagnosis_of_a_part_by_part_solve_takes_each_tear_from_its_own_par
             assert live[tear].slope == own[tear].slope and live[tear].advice == own[tear].advice
     monitor.end_run(solution.convergence, solution.block_evaluations)
     assert set(monitor.plots.series) == set(solution.tear_streams)
+
+
+def test_a_fallback_is_shown_in_the_run_text(qtbot, monitor):
+    # A coupled affine map on which per-variable held q diverges while direct
+    # substitution converges (tests/convergence/test_robustness.py): the run falls back.
+    from tests.convergence.problems import wide_map
+
+    g, x0 = wide_map()
+    problem = FixedPointProblem(g=g, x0=x0, tear_slices={"W": slice(0, x0.size)})
+    settings = SolverSettings(q_mode="held", max_iterations=500)
+    monitor.bind_settings(settings)
+    monitor.begin_run()
+    result = solve_fixed_point(problem, "wegstein", settings, monitor.add_record)
+    monitor.end_run(result)
+    assert result.converged and result.history.events_of("fallback")
+    assert "Fallback at iteration" in monitor.diagnosis_view.toPlainText()

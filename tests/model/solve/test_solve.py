@@ -154,8 +154,15 @@ def test_tighter_tolerance_gives_smaller_residual_and_closure():
     results = []
     for tolerance in (1e-4, 1e-10):
         settings = SolverSettings()
-        # Fixed q bounds and the residual rule: slower, so the tolerance matters.
-        settings.update(tolerance=tolerance, q_min=-2.0, adaptive_bounds=False, stop_on="residual")
+        # Fixed q bounds, the residual rule, two direct steps: slower, so the tolerance
+        # matters.
+        settings.update(
+            tolerance=tolerance,
+            q_min=-2.0,
+            adaptive_bounds=False,
+            stop_on="residual",
+            early_acceleration=False,
+        )
         solution = solve_flowsheet(_nested(), settings=settings)
         assert solution.converged
         results.append(
