@@ -18,7 +18,8 @@ def _quantity(value: float, kind: str, unit_system: str) -> str:
 def describe_stream(
     name: str, state: Any, component_names: list[str], unit_system: str, current: bool = True
 ) -> str:
-    """Several lines: flow, temperature, pressure, phase and mole fractions of a stream."""
+    """Several lines: flow, temperature, pressure, phase and mole fractions of a stream, and
+    for a two-phase stream its vapor fraction and each phase's flow."""
     lines = [f"{name} ({state.phase})"]
     lines.append("flow " + _quantity(state.total_molar_flow(), "molar_flow", unit_system))
     lines.append(
@@ -35,6 +36,11 @@ def describe_stream(
     ]
     if parts:
         lines.append("mole fractions: " + ", ".join(parts))
+    if getattr(state, "two_phase", False):
+        lines.append(f"vapor fraction {format_value(state.vapor_fraction(), 4)}")
+        vapor = _quantity(float(state.vapor_flows.sum()), "molar_flow", unit_system)
+        liquid = _quantity(float(state.liquid_flows.sum()), "molar_flow", unit_system)
+        lines.append(f"vapor {vapor} · liquid {liquid}")
     if not current:
         lines.append("(last solve; the flowsheet changed since)")
     return "\n".join(lines)
