@@ -1,9 +1,10 @@
 """Targets and sweeps: outer iterations and passes with and without warm start, and a
 sweep's throughput on one and two worker processes.
 
-1. The ammonia example's target (purge fraction for 8 mol % argon in the recycle gas):
-   outer iterations, total flowsheet passes and block evaluations of every recycle
-   solve, with each solve warm-started from the previous one's tears and without.
+1. The target of the typed-split ammonia example (purge fraction for 8 mol % argon in
+   the recycle gas): outer iterations, total flowsheet passes and block evaluations of
+   every recycle solve, with each solve warm-started from the previous one's tears and
+   without.
 2. A sweep of the same example's conversion per pass (its target met at every point),
    serially with warm starts inside each run of neighbours, and the same points solved
    each from a cold start.
@@ -25,7 +26,7 @@ from model.solve.targets import solve_with_targets
 from model.study.sweep_definition import SweepPlan, parse_record, parse_variation
 from model.study.sweep_run import run_sweep
 
-EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "ammonia_synthesis_loop.loop.json"
+EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "ammonia_loop_fixed_split.loop.json"
 
 
 def _target_figures(warm_start: bool) -> dict:
