@@ -29,6 +29,9 @@ from typing import Any
 
 PHASES = ("vapor", "liquid")
 AS_INLET = "as inlet"
+#: A heater outlet whose phase (vapor, liquid or both) comes from the case's phase
+#: equilibrium at the outlet's T and P, or at its enthalpy in duty mode.
+EQUILIBRIUM = "equilibrium"
 
 
 @dataclass(frozen=True)
@@ -298,7 +301,15 @@ HEATER = BlockKind(
             needed_when=("mode", ("duty",)),
             help="Heat added; negative for a cooler.",
         ),
-        _phase(),
+        SpecField(
+            "phase",
+            "Outlet phase",
+            "choice",
+            default=AS_INLET,
+            choices=(*_PHASE_OR_INLET, EQUILIBRIUM),
+            help="'equilibrium': vapor, liquid or both, from the case's property method "
+            "(a duty spec then includes the latent heat).",
+        ),
         _pressure_drop(),
     ),
     description="Heats or cools one stream (a cooler is a heater with negative duty).",

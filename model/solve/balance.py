@@ -154,6 +154,9 @@ def balance_report(
             np.array([streams[n].T for n in names]),
             np.array([streams[n].phase == "liquid" for n in names]),
         )
+        for i, name in enumerate(names):  # a two-phase stream: both phases' enthalpy
+            if streams[name].two_phase:
+                enthalpy[i] = streams[name].enthalpy_flow(basis)
         return (
             float((flows @ basis.molar_mass).sum()),
             basis.element_matrix @ flows.sum(0),

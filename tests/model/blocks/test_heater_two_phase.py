@@ -1,0 +1,150 @@
+"""A heater whose outlet phase is "equilibrium": the outlet is the case's flash.
+
+References: thermo ``FlashVL`` with an ideal gas and an ideal liquid whose vapor
+pressures use the same Antoine table (ANTOINE_POLING), set up in
+tests/model/properties/test_phase_equilibrium.py (1e-6 relative: both solve the same
+equations to far tighter tolerances); CoolProp's saturation temperature of water.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from model.case.document import Case
+from model.case.file import CaseFileError, case_from_json, case_to_json
+from model.flowsheet.document import Flowsheet
+from model.flowsheet.spec_values import ComponentAmounts, TypedQuantity
+from model.properties.components import lookup_component
+from model.solve.driver import solve_flowsheet
+from model.validation.validate import validate_flowsheet
+from tests.model.properties.test_phase_equilibrium import _thermo_flasher
+
+P_ATM = 101325.0
+MIXTURE = {"water": 0.5, "methanol": 0.5}
+
+
+def _heater(specs: dict, flows: dict[str, float] = MIXTURE) -> Flowsheet:
+    """Feed (liquid, 300 K, 1 atm) -> heater H -> product; streams "feed" and "out"."""
+    sheet = Flowsheet()
+    for name in flows:
+        sheet.add_component(lookup_component(name))
+    sheet.add_block(
+        "Feed",
+        "F",
+        specs={
+            "flows": ComponentAmounts(flows, "mol/s"),
+            "T": TypedQuantity(300.0, "K"),
+            "P": TypedQuantity(P_ATM, "Pa"),
+            "phase": "liquid",
+        },
+    )
+    sheet.add_block("Heater", "H", specs={"phase": "equilibrium", **specs})
+    sheet.add_block("Product", "P")
+    sheet.connect("F", "out", "H", "in", "feed")
+    sheet.connect("H", "out", "P", "in", "out")
+    return sheet
+
+
+def _solved(sheet: Flowsheet):
+    solution = solve_flowsheet(sheet)
+    assert solution.converged, solution.message
+    return solution
+
+
+def test_heater_into_the_two_phase_region_matches_thermo_and_closes():
+    solution = _solved(_heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")}))
+    out = solution.streams["out"]
+    reference = _thermo_flasher(["water", "methanol"]).flash(T=355.0, P=P_ATM, zs=[0.5, 0.5])
+    assert 0.0 < reference.VF < 1.0  # the point tested is two-phase
+    assert out.two_phase and out.phase == "two-phase"
+    assert out.vapor_fraction() == pytest.approx(reference.VF, rel=1e-6)
+    vapor_y = out.vapor_flows / out.vapor_flows.sum()
+    liquid_x = out.liquid_flows / out.liquid_flows.sum()
+    assert vapor_y == pytest.approx(np.array(reference.gas.zs), rel=1e-6)
+    assert liquid_x == pytest.approx(np.array(reference.liquid0.zs), rel=1e-6)
+    result = solution.blocks["H"]
+    assert result.values["vapor fraction"][0] == pytest.approx(reference.VF, rel=1e-6)
+    # energy balance: duty = H_out - H_in (both phases of the outlet)
+    basis = solution.basis
+    h_in = solution.streams["feed"].enthalpy_flow(basis)
+    assert result.duty_W == pytest.approx(out.enthalpy_flow(basis) - h_in, rel=1e-9)
+    assert solution.balance.energy_closure < 1e-9
+
+
+def test_duty_of_the_temperature_run_gives_back_its_temperature():
+    by_T = _solved(_heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")}))
+    duty = by_T.blocks["H"].duty_W
+    by_duty = _solved(_heater({"mode": "duty", "duty": TypedQuantity(duty, "W")}))
+    out = by_duty.streams["out"]
+    # the search stops within 1e-9 K: 1e-6 relative is loose for it, tight for the user
+    assert out.T == pytest.approx(355.0, rel=1e-6)
+    assert out.vapor_fraction() == pytest.approx(by_T.streams["out"].vapor_fraction(), rel=1e-6)
+    assert by_duty.blocks["H"].values["temperature"][0] == pytest.approx(355.0, rel=1e-6)
+    assert by_duty.balance.energy_closure < 1e-9
+
+
+@pytest.mark.parametrize("T", [320.0, 380.0])
+def test_outside_the_two_phase_region_the_outlet_is_one_phase(T):
+    solution = _solved(_heater({"mode": "outlet temperature", "T": TypedQuantity(T, "K")}))
+    out = solution.streams["out"]
+    reference = _thermo_flasher(["water", "methanol"]).flash(T=T, P=P_ATM, zs=[0.5, 0.5])
+    expected = "liquid" if reference.VF == 0.0 else "vapor"
+    assert reference.VF in (0.0, 1.0)
+    assert out.phase == expected and not out.two_phase
+
+
+def test_pure_water_in_duty_mode_boils_at_its_saturation_temperature():
+    from CoolProp.CoolProp import PropsSI
+
+    flows = {"water": 1.0}
+    # heat the liquid to a vapor fraction of about a third: the duty lies between the
+    # bubble and the dew enthalpies, so the answer is on the latent-heat jump
+    bubble = _solved(_heater({"mode": "outlet temperature", "T": TypedQuantity(373.0, "K")}, flows))
+    duty = bubble.blocks["H"].duty_W + 15000.0  # 15 kJ/mol of a ~40 kJ/mol latent heat
+    solution = _solved(_heater({"mode": "duty", "duty": TypedQuantity(duty, "W")}, flows))
+    out = solution.streams["out"]
+    assert out.two_phase and 0.2 < out.vapor_fraction() < 0.6
+    # thermo's ideal flash of water at 1 atm (same Antoine table): 1e-6 relative
+    reference = _thermo_flasher(["water", "water"]).flash(P=P_ATM, VF=0.5, zs=[0.5, 0.5]).T
+    assert out.T == pytest.approx(reference, rel=1e-6)
+    # CoolProp (IAPWS-95): 373.124 K. Poling's Antoine constants for water give about
+    # 373.23 K at 1 atm: their fit over their range is off by ~0.1 K here, so 0.2 K.
+    assert out.T == pytest.approx(PropsSI("T", "P", P_ATM, "Q", 0, "Water"), abs=0.2)
+    assert solution.balance.energy_closure < 1e-9
+    # the latent heat the lever rule used: vapor share of the duty beyond the bubble point
+    basis = solution.basis
+    latent = basis.stream_enthalpy_flow(np.array([1.0]), out.T, False) - (
+        basis.stream_enthalpy_flow(np.array([1.0]), out.T, True)
+    )
+    assert out.vapor_fraction() == pytest.approx(
+        (out.enthalpy_flow(basis) - basis.stream_enthalpy_flow(np.array([1.0]), out.T, True))
+        / latent,
+        rel=1e-9,
+    )
+
+
+def test_a_duty_beyond_reach_fails_naming_the_block():
+    solution = solve_flowsheet(_heater({"mode": "duty", "duty": TypedQuantity(1e12, "W")}))
+    assert not solution.converged
+    assert "H" in solution.message and "duty" in solution.message
+
+
+def test_a_bad_phase_choice_is_refused_naming_block_field_and_value():
+    sheet = _heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")})
+    sheet.block("H").specs["phase"] = "boiling"  # as a case file could hold it
+    errors = [i for i in validate_flowsheet(sheet) if i.is_error]
+    assert errors and errors[0].block == "H" and errors[0].field == "phase"
+    assert "boiling" in errors[0].message and "equilibrium" in errors[0].message
+    assert solve_flowsheet(sheet).status == "needs input"
+
+
+def test_the_choice_is_kept_by_the_case_file():
+    sheet = _heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")})
+    text = case_to_json(Case(sheet))
+    assert '"phase": "equilibrium"' in text
+    again = case_from_json(text)
+    assert again.flowsheet.block("H").specs["phase"] == "equilibrium"
+    bad = text.replace('"phase": "equilibrium"', '"phase": "boiling"')
+    with pytest.raises(CaseFileError, match="boiling"):
+        case_from_json(bad)
