@@ -15,7 +15,7 @@ from model.blocks.held import HeldTemperature
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
 from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
-from model.properties.stream_state import StreamState
+from model.properties.stream_state import TWO_PHASE, StreamState
 
 #: Relative size below which a negative flow is rounding, silently set to zero.
 ROUNDING = 1e-12
@@ -178,6 +178,18 @@ def energy_outlet(
     if flows.sum() <= 0.0:
         duty, target = 0.0, 0.0
     return T, duty, (target if len(warnings) == warned else None)
+
+
+def one_phase(block: CompiledBlock, phase: str, field: str = "phase") -> str:
+    """``phase`` kept from a two-phase inlet ("as inlet") is refused: only a heater's
+    "equilibrium" outlet or a flash drum splits the phases; this block needs one named."""
+    if phase == TWO_PHASE:
+        raise CalculationError(
+            block.name,
+            f"{field}: 'as inlet' but the inlet is two-phase; choose the outlet phase, "
+            "vapor or liquid",
+        )
+    return phase
 
 
 def clip_rounding(flows: np.ndarray, scale: float) -> np.ndarray:

@@ -19,6 +19,7 @@ from model.blocks.base import (
     BlockOutput,
     CompiledBlock,
     enthalpies,
+    one_phase,
     outlet_pressure,
     temperature_for_enthalpy,
 )
@@ -161,8 +162,8 @@ def compute_exchanger(
     block: CompiledExchanger, inlets: list[StreamState], basis, strict: bool = True
 ) -> BlockOutput:
     hot, cold = inlets
-    hot_phase = block.hot_phase or hot.phase
-    cold_phase = block.cold_phase or cold.phase
+    hot_phase = one_phase(block, block.hot_phase or hot.phase, "hot_phase")
+    cold_phase = one_phase(block, block.cold_phase or cold.phase, "cold_phase")
     h_hot, h_cold = enthalpies(basis, [hot, cold])
     warnings: list[str] = []
     duty, hot_T, cold_T = _duty_and_outlet_temperatures(

@@ -148,3 +148,51 @@ def test_the_choice_is_kept_by_the_case_file():
     bad = text.replace('"phase": "equilibrium"', '"phase": "boiling"')
     with pytest.raises(CaseFileError, match="boiling"):
         case_from_json(bad)
+
+
+def _split(sheet: Flowsheet) -> Flowsheet:
+    """H's outlet "out" -> splitter S (a quarter to "a", the rest to "b")."""
+    sheet.remove_block("P")
+    sheet.add_block("Splitter", "S", specs={"fractions": {"out1": 0.25}})
+    sheet.connect("H", "out", "S", "in", "out")
+    return sheet
+
+
+def test_a_two_phase_outlet_splits_in_proportion():
+    sheet = _split(_heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")}))
+    sheet.add_block("Product", "P1")
+    sheet.add_block("Product", "P2")
+    sheet.connect("S", "out1", "P1", "in", "a")
+    sheet.connect("S", "out2", "P2", "in", "b")
+    solution = _solved(sheet)
+    a, out = solution.streams["a"], solution.streams["out"]
+    assert a.two_phase and a.vapor_flows == pytest.approx(0.25 * out.vapor_flows, rel=1e-12)
+    assert solution.balance.energy_closure < 1e-9
+
+
+def test_a_mixer_keeping_a_two_phase_inlet_phase_fails_naming_block_and_field():
+    sheet = _split(_heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")}))
+    sheet.add_block("Mixer", "M")
+    sheet.add_block("Product", "P")
+    sheet.connect("S", "out1", "M", "in1", "a")
+    sheet.connect("S", "out2", "M", "in2", "b")
+    sheet.connect("M", "out", "P", "in", "mixed")
+    solution = solve_flowsheet(sheet)
+    assert not solution.converged
+    assert "M" in solution.message and "phase" in solution.message
+    assert "two-phase" in solution.message
+    sheet.block("M").specs["phase"] = "liquid"  # a named phase: the mixer runs
+    assert _solved(sheet).balance.energy_closure < 1e-9
+
+
+def test_a_heater_keeping_a_two_phase_inlet_phase_flashes_it():
+    sheet = _heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")})
+    sheet.remove_block("P")
+    sheet.add_block("Heater", "H2", specs={"T": TypedQuantity(356.0, "K")})
+    sheet.add_block("Product", "P")
+    sheet.connect("H", "out", "H2", "in", "out")
+    sheet.connect("H2", "out", "P", "in", "out2")
+    solution = _solved(sheet)
+    reference = _thermo_flasher(["water", "methanol"]).flash(T=356.0, P=P_ATM, zs=[0.5, 0.5])
+    assert solution.streams["out2"].vapor_fraction() == pytest.approx(reference.VF, rel=1e-6)
+    assert solution.balance.energy_closure < 1e-9
