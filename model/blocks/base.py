@@ -56,7 +56,25 @@ def enthalpy(basis, state: StreamState) -> float:
     carried on it, else computed."""
     if state.enthalpy is not None:
         return state.enthalpy
+    if state.phase == TWO_PHASE and state.vapor_flows is None:
+        restore_phases(basis, state)
     return state.enthalpy_flow(basis)
+
+
+def restore_phases(basis, state: StreamState) -> None:
+    """Give a two-phase state that carries only its flows, T and P (a tear stream's
+    iterate) its phases back, by the property method's flash at its T and P.
+
+    A single component's split is not fixed by T and P (it boils at one temperature):
+    such a state comes back as the flash's one phase.
+    """
+    from model.properties.property_method import equilibrium_for
+
+    result = equilibrium_for(basis).flash_TP(state.flows, state.T, state.P)
+    if result.phase == TWO_PHASE:
+        state.vapor_flows = result.vapor_flows
+    else:
+        state.phase = result.phase
 
 
 class SetTemperatureEnthalpy:
