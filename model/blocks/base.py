@@ -199,8 +199,9 @@ def energy_outlet(
 
 
 def one_phase(block: CompiledBlock, phase: str, field: str = "phase") -> str:
-    """``phase`` kept from a two-phase inlet ("as inlet") is refused: only a heater's
-    "equilibrium" outlet or a flash drum splits the phases; this block needs one named."""
+    """``phase`` kept from a two-phase inlet ("as inlet") is refused: only a heater's or
+    an exchanger's "equilibrium" outlet or a flash drum splits the phases; this block
+    needs one named."""
     if phase == TWO_PHASE:
         raise CalculationError(
             block.name,

@@ -97,6 +97,18 @@ def _phase(name: str = "phase", label: str = "Outlet phase", default: str = AS_I
     return SpecField(name, label, "choice", default=default, choices=choices)
 
 
+def _phase_or_equilibrium(name: str = "phase", label: str = "Outlet phase") -> SpecField:
+    return SpecField(
+        name,
+        label,
+        "choice",
+        default=AS_INLET,
+        choices=(*_PHASE_OR_INLET, EQUILIBRIUM),
+        help="'equilibrium': vapor, liquid or both, from the case's property method "
+        "(a duty spec then includes the latent heat).",
+    )
+
+
 def _pressure_drop(name: str = "pressure_drop", label: str = "Pressure drop") -> SpecField:
     return SpecField(
         name, label, "pressure_difference", required=False, help="Leave empty for no pressure drop."
@@ -301,15 +313,7 @@ HEATER = BlockKind(
             needed_when=("mode", ("duty",)),
             help="Heat added; negative for a cooler.",
         ),
-        SpecField(
-            "phase",
-            "Outlet phase",
-            "choice",
-            default=AS_INLET,
-            choices=(*_PHASE_OR_INLET, EQUILIBRIUM),
-            help="'equilibrium': vapor, liquid or both, from the case's property method "
-            "(a duty spec then includes the latent heat).",
-        ),
+        _phase_or_equilibrium(),
         _pressure_drop(),
     ),
     description="Heats or cools one stream (a cooler is a heater with negative duty).",
@@ -343,8 +347,8 @@ EXCHANGER = BlockKind(
         SpecField(
             "duty", "Duty (heat from hot to cold side)", "power", needed_when=("mode", ("duty",))
         ),
-        _phase("hot_phase", "Hot outlet phase"),
-        _phase("cold_phase", "Cold outlet phase"),
+        _phase_or_equilibrium("hot_phase", "Hot outlet phase"),
+        _phase_or_equilibrium("cold_phase", "Cold outlet phase"),
         SpecField(
             "minimum_approach",
             "Minimum approach",

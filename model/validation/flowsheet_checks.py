@@ -352,15 +352,15 @@ def mixer_phase_issues(flowsheet: Flowsheet, ports: PortMap) -> list[Issue]:
 
 
 def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
-    """A flash drum (or a heater whose outlet phase is "equilibrium") needs the property
-    method's data for every component of the case."""
+    """A flash drum (or a heater or exchanger with an "equilibrium" outlet phase) needs
+    the property method's data for every component of the case."""
     from model.properties.property_method import missing_data
 
     issues = []
     method = flowsheet.property_method
     instead = (
         "choose a named outlet phase instead"
-        if block.kind == "Heater"
+        if block.kind in ("Heater", "Exchanger")
         else "use a separator with a stated split instead"
     )
     for component in flowsheet.components:

@@ -73,8 +73,8 @@ def validate_flowsheet(flowsheet: Flowsheet) -> list[Issue]:
             issues += splitter_issues(block, ports)
         elif block.kind == "Feed":
             issues += feed_issues(block)
-        elif block.kind == "Flash drum" or (
-            block.kind == "Heater" and block.specs.get("phase") == EQUILIBRIUM
+        elif block.kind == "Flash drum" or EQUILIBRIUM in (
+            block.specs.get(name) for name in ("phase", "hot_phase", "cold_phase")
         ):
             issues += flash_drum_issues(flowsheet, block)
     issues += mixer_phase_issues(flowsheet, ports)

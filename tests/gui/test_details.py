@@ -142,6 +142,11 @@ def test_heater_outlet_phase_offers_equilibrium(qtbot, pane, sheet):
     assert sheet.blocks["H1"].specs["phase"] == "equilibrium"
     pane.undo_stack.undo()
     assert sheet.blocks["H1"].specs["phase"] == "as inlet"
+    sheet.add_block("Exchanger", "X1")  # both of its sides offer it too
+    form = pane.show_block("X1")
+    for name in ("hot_phase", "cold_phase"):
+        combo = form.editors[name].combo
+        assert combo.findText("equilibrium") >= 0
 
 
 def test_conversion_above_one_is_refused_with_the_models_message(qtbot, pane, sheet):

@@ -221,3 +221,49 @@ def test_a_two_phase_tear_stream_converges_to_the_once_through_answer():
     reference = _thermo_flasher(["water", "methanol"]).flash(T=355.0, P=P_ATM, zs=[0.5, 0.5])
     assert solution.streams["product"].vapor_fraction() == pytest.approx(reference.VF, rel=1e-6)
     assert solution.balance.energy_closure < 1e-9
+
+
+def _exchanger(specs: dict) -> Flowsheet:
+    """Hot water/methanol vapor (10 mol/s, 420 K, kept vapor) against the 300 K liquid
+    feed of ``_heater``; the cold outlet phase is "equilibrium"."""
+    sheet = Flowsheet()
+    for name in MIXTURE:
+        sheet.add_component(lookup_component(name))
+    for name, T, phase in (("C", 300.0, "liquid"), ("W", 420.0, "vapor")):
+        sheet.add_block(
+            "Feed",
+            name,
+            specs={
+                "flows": ComponentAmounts({"water": 5.0, "methanol": 5.0}, "mol/s")
+                if name == "W"
+                else ComponentAmounts(MIXTURE, "mol/s"),
+                "T": TypedQuantity(T, "K"),
+                "P": TypedQuantity(P_ATM, "Pa"),
+                "phase": phase,
+            },
+        )
+    sheet.add_block("Exchanger", "X", specs={"cold_phase": "equilibrium", **specs})
+    sheet.add_block("Product", "PH")
+    sheet.add_block("Product", "PC")
+    sheet.connect("W", "out", "X", "hot_in", "hot")
+    sheet.connect("C", "out", "X", "cold_in", "cold")
+    sheet.connect("X", "hot_out", "PH", "in", "hot out")
+    sheet.connect("X", "cold_out", "PC", "in", "cold out")
+    return sheet
+
+
+def test_exchanger_cold_side_boils_to_thermo_and_back_from_its_duty():
+    by_T = _solved(_exchanger({"cold_T": TypedQuantity(355.0, "K")}))
+    cold = by_T.streams["cold out"]
+    reference = _thermo_flasher(["water", "methanol"]).flash(T=355.0, P=P_ATM, zs=[0.5, 0.5])
+    assert cold.two_phase and cold.vapor_fraction() == pytest.approx(reference.VF, rel=1e-6)
+    result = by_T.blocks["X"]
+    assert result.values["cold outlet vapor fraction"][0] == pytest.approx(reference.VF, rel=1e-6)
+    # the cold side takes what a heater to the same state takes (duty = H_out - H_in)
+    heater = _solved(_heater({"mode": "outlet temperature", "T": TypedQuantity(355.0, "K")}))
+    assert result.duty_W == pytest.approx(heater.blocks["H"].duty_W, rel=1e-9)
+    assert by_T.balance.energy_closure < 1e-9
+    assert any("phase change" in warning for warning in result.warnings)
+    by_duty = _solved(_exchanger({"mode": "duty", "duty": TypedQuantity(result.duty_W, "W")}))
+    assert by_duty.streams["cold out"].T == pytest.approx(355.0, rel=1e-6)
+    assert by_duty.streams["hot out"].T == pytest.approx(by_T.streams["hot out"].T, rel=1e-6)
