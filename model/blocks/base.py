@@ -15,7 +15,7 @@ from model.blocks.held import HeldTemperature
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
 from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
-from model.properties.stream_state import StreamState
+from model.properties.stream_state import TWO_PHASE, StreamState
 
 #: Relative size below which a negative flow is rounding, silently set to zero.
 ROUNDING = 1e-12
@@ -56,7 +56,25 @@ def enthalpy(basis, state: StreamState) -> float:
     carried on it, else computed."""
     if state.enthalpy is not None:
         return state.enthalpy
+    if state.phase == TWO_PHASE and state.vapor_flows is None:
+        restore_phases(basis, state)
     return state.enthalpy_flow(basis)
+
+
+def restore_phases(basis, state: StreamState) -> None:
+    """Give a two-phase state that carries only its flows, T and P (a tear stream's
+    iterate) its phases back, by the property method's flash at its T and P.
+
+    A single component's split is not fixed by T and P (it boils at one temperature):
+    such a state comes back as the flash's one phase.
+    """
+    from model.properties.property_method import equilibrium_for
+
+    result = equilibrium_for(basis).flash_TP(state.flows, state.T, state.P)
+    if result.phase == TWO_PHASE:
+        state.vapor_flows = result.vapor_flows
+    else:
+        state.phase = result.phase
 
 
 class SetTemperatureEnthalpy:
@@ -178,6 +196,19 @@ def energy_outlet(
     if flows.sum() <= 0.0:
         duty, target = 0.0, 0.0
     return T, duty, (target if len(warnings) == warned else None)
+
+
+def one_phase(block: CompiledBlock, phase: str, field: str = "phase") -> str:
+    """``phase`` kept from a two-phase inlet ("as inlet") is refused: only a heater's or
+    an exchanger's "equilibrium" outlet or a flash drum splits the phases; this block
+    needs one named."""
+    if phase == TWO_PHASE:
+        raise CalculationError(
+            block.name,
+            f"{field}: 'as inlet' but the inlet is two-phase; choose the outlet phase, "
+            "vapor or liquid",
+        )
+    return phase
 
 
 def clip_rounding(flows: np.ndarray, scale: float) -> np.ndarray:

@@ -23,9 +23,11 @@ from model.blocks.base import (
     temperature_for_enthalpy,
 )
 from model.blocks.result import BlockResult
-from model.errors import CalculationError
-from model.flowsheet.kinds import AS_INLET
-from model.properties.stream_state import StreamState
+from model.errors import CalculationError, InputError
+from model.flowsheet.kinds import AS_INLET, EQUILIBRIUM
+from model.properties.phase_equilibrium import FlashResult
+from model.properties.property_method import equilibrium_for
+from model.properties.stream_state import TWO_PHASE, StreamState
 
 #: Relative difference of the end differences below which the LMTD is their mean.
 EQUAL_ENDS = 1e-6
@@ -72,52 +74,85 @@ def log_mean_temperature_difference(dT1: float, dT2: float) -> float:
     return (dT1 - dT2) / math.log1p((dT1 - dT2) / dT2)  # log1p: no cancellation near 1
 
 
-def _enthalpy_at(basis, state: StreamState, T: float, phase: str) -> float:
-    return basis.stream_enthalpy_flow(state.flows, T, phase == "liquid")
+@dataclass
+class _Side:
+    """One side's inlet, outlet phase ("vapor", "liquid" or "equilibrium"), outlet P,
+    and the flash of its outlet once known (equilibrium sides only)."""
+
+    inlet: StreamState
+    phase: str
+    P: float
+    what: str
+    flash: FlashResult | None = None
+
+
+def _enthalpy_at(basis, side: _Side, T: float) -> float:
+    if side.phase != EQUILIBRIUM:
+        return basis.stream_enthalpy_flow(side.inlet.flows, T, side.phase == "liquid")
+    equilibrium = equilibrium_for(basis)
+    side.flash = equilibrium.flash_TP(side.inlet.flows, T, side.P)
+    return float(equilibrium.enthalpy_flow(side.flash))
+
+
+def _outlet_T(block, basis, side: _Side, target: float, strict: bool, warnings) -> float:
+    """Outlet T of a side carrying enthalpy ``target`` (W): a flash at that enthalpy on
+    an equilibrium side (latent heat inside its bracketed search)."""
+    flows = side.inlet.flows
+    if side.phase != EQUILIBRIUM or not flows.sum() > 0.0:
+        liquid = side.phase == "liquid" or (
+            side.phase == EQUILIBRIUM and side.inlet.phase == "liquid"
+        )
+        T = temperature_for_enthalpy(
+            block, basis, flows, target, liquid, side.inlet.T, strict, warnings, side.what
+        )
+        if side.phase == EQUILIBRIUM:
+            side.flash = equilibrium_for(basis).flash_TP(flows, T, side.P)
+        return T
+    equilibrium = equilibrium_for(basis)
+    start = block.last_temperatures.get(side.what, side.inlet.T)
+    try:
+        side.flash = equilibrium.flash_PH(flows, side.P, target, start)
+    except InputError as error:
+        if strict:
+            raise CalculationError(block.name, f"{side.what}: {error.allowed}") from None
+        warnings.append(f"{side.what}: duty not reached ({error.allowed}); held at the inlet T")
+        side.flash = equilibrium.flash_TP(flows, side.inlet.T, side.P)
+    block.last_temperatures[side.what] = side.flash.T
+    return side.flash.T
+
+
+def _outlet(basis, side: _Side, T: float) -> StreamState:
+    if side.flash is None:
+        return StreamState(side.inlet.flows, T, side.P, side.phase)
+    flash = side.flash
+    vapor = flash.vapor_flows if flash.phase == TWO_PHASE else None
+    h = float(equilibrium_for(basis).enthalpy_flow(flash))
+    return StreamState(side.inlet.flows, flash.T, side.P, flash.phase, h, vapor)
 
 
 def _duty_and_outlet_temperatures(
-    block, basis, hot, cold, hot_phase, cold_phase, h_hot, h_cold, strict, warnings
+    block, basis, hot: _Side, cold: _Side, h_hot, h_cold, strict, warnings
 ) -> tuple[float, float, float]:
     """Q (hot to cold) and the hot and cold outlet temperatures."""
     hot_T, cold_T = block.hot_T, block.cold_T
     if block.mode == "hot outlet temperature":
-        duty = h_hot - _enthalpy_at(basis, hot, hot_T, hot_phase)
+        duty = h_hot - _enthalpy_at(basis, hot, hot_T)
     elif block.mode == "cold outlet temperature":
-        duty = _enthalpy_at(basis, cold, cold_T, cold_phase) - h_cold
+        duty = _enthalpy_at(basis, cold, cold_T) - h_cold
     else:
         duty = float(block.duty)
-    empty = [side for side, state in (("hot", hot), ("cold", cold)) if state.flows.sum() <= 0.0]
+    empty = [name for name, side in (("hot", hot), ("cold", cold)) if side.inlet.flows.sum() <= 0.0]
     if empty and duty != 0.0:
         detail = f"duty {duty:.6g} W cannot pass with no flow on the {empty[0]} side"
         if strict:
             raise CalculationError(block.name, detail)
         warnings.append(detail)
-        duty, hot_T, cold_T = 0.0, hot.T, cold.T
+        duty, hot_T, cold_T = 0.0, hot.inlet.T, cold.inlet.T
+        hot.flash = cold.flash = None
     if block.mode != "hot outlet temperature" or hot_T is None:
-        hot_T = temperature_for_enthalpy(
-            block,
-            basis,
-            hot.flows,
-            h_hot - duty,
-            hot_phase == "liquid",
-            hot.T,
-            strict,
-            warnings,
-            "hot outlet",
-        )
+        hot_T = _outlet_T(block, basis, hot, h_hot - duty, strict, warnings)
     if block.mode != "cold outlet temperature" or cold_T is None:
-        cold_T = temperature_for_enthalpy(
-            block,
-            basis,
-            cold.flows,
-            h_cold + duty,
-            cold_phase == "liquid",
-            cold.T,
-            strict,
-            warnings,
-            "cold outlet",
-        )
+        cold_T = _outlet_T(block, basis, cold, h_cold + duty, strict, warnings)
     return duty, float(hot_T), float(cold_T)
 
 
@@ -157,34 +192,48 @@ def _checks(
     return values
 
 
+def _side(block, inlet: StreamState, phase: str | None, drop: float, what: str) -> _Side:
+    """A side whose phase is kept from a two-phase inlet is flashed like an equilibrium one."""
+    kept = phase or inlet.phase
+    return _Side(
+        inlet,
+        EQUILIBRIUM if kept == TWO_PHASE else kept,
+        outlet_pressure(block, inlet.P, drop),
+        what,
+    )
+
+
 def compute_exchanger(
     block: CompiledExchanger, inlets: list[StreamState], basis, strict: bool = True
 ) -> BlockOutput:
-    hot, cold = inlets
-    hot_phase = block.hot_phase or hot.phase
-    cold_phase = block.cold_phase or cold.phase
-    h_hot, h_cold = enthalpies(basis, [hot, cold])
+    hot_in, cold_in = inlets
+    hot = _side(block, hot_in, block.hot_phase, block.hot_pressure_drop, "hot outlet")
+    cold = _side(block, cold_in, block.cold_phase, block.cold_pressure_drop, "cold outlet")
+    h_hot, h_cold = enthalpies(basis, [hot_in, cold_in])
     warnings: list[str] = []
     duty, hot_T, cold_T = _duty_and_outlet_temperatures(
-        block,
-        basis,
-        hot,
-        cold,
-        hot_phase,
-        cold_phase,
-        float(h_hot),
-        float(h_cold),
-        strict,
-        warnings,
+        block, basis, hot, cold, float(h_hot), float(h_cold), strict, warnings
     )
-    outlets = {
-        "hot_out": StreamState(
-            hot.flows, hot_T, outlet_pressure(block, hot.P, block.hot_pressure_drop), hot_phase
-        ),
-        "cold_out": StreamState(
-            cold.flows, cold_T, outlet_pressure(block, cold.P, block.cold_pressure_drop), cold_phase
-        ),
+    outlets = {"hot_out": _outlet(basis, hot, hot_T), "cold_out": _outlet(basis, cold, cold_T)}
+    temperatures = {
+        "hot_in": hot_in.T,
+        "cold_in": cold_in.T,
+        "hot_out": outlets["hot_out"].T,
+        "cold_out": outlets["cold_out"].T,
     }
-    temperatures = {"hot_in": hot.T, "cold_in": cold.T, "hot_out": hot_T, "cold_out": cold_T}
     values = _checks(block, duty, temperatures, warnings)
+    for name, side in (("hot", hot), ("cold", cold)):
+        if side.flash is not None:
+            values[f"{name} outlet vapor fraction"] = (float(side.flash.vapor_fraction), "")
+    changed = any(  # on an equilibrium side: the phase changes, or is two-phase
+        side.flash is not None
+        and TWO_PHASE in (side.inlet.phase, outlets[port].phase)
+        or (side.flash is not None and side.inlet.phase != outlets[port].phase)
+        for side, port in ((hot, "hot_out"), (cold, "cold_out"))
+    )
+    if changed and "LMTD" in values:
+        warnings.append(
+            "LMTD and UA from the end temperatures only: with a phase change "
+            "inside, the temperature profile is not the one the LMTD assumes"
+        )
     return BlockOutput(outlets, BlockResult(duty_W=duty, values=values, warnings=warnings))

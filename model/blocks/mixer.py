@@ -7,7 +7,13 @@ from typing import Any
 
 import numpy as np
 
-from model.blocks.base import BlockOutput, CompiledBlock, enthalpies, temperature_for_enthalpy
+from model.blocks.base import (
+    BlockOutput,
+    CompiledBlock,
+    enthalpies,
+    one_phase,
+    temperature_for_enthalpy,
+)
 from model.blocks.result import BlockResult
 from model.errors import CalculationError
 from model.flowsheet.kinds import AS_INLET
@@ -37,7 +43,7 @@ def _outlet_phase(block: CompiledMixer, inlets: list[StreamState]) -> str:
             "outlet phase 'as inlet' but the inlets are "
             f"{' and '.join(sorted(phases))}; choose the outlet phase",
         )
-    return phases.pop()
+    return one_phase(block, phases.pop())
 
 
 def compute_mixer(

@@ -21,6 +21,7 @@ from model.blocks.base import (
     SetTemperatureEnthalpy,
     energy_outlet,
     enthalpy,
+    one_phase,
     outlet_pressure,
 )
 from model.blocks.result import BlockResult
@@ -124,7 +125,7 @@ def compute_reactor(
     inlet = inlets[0]
     warnings: list[str] = []
     flows, extents = react(block, inlet.flows, strict, warnings)
-    phase = block.phase or inlet.phase
+    phase = one_phase(block, block.phase or inlet.phase)
     P = outlet_pressure(block, inlet.P, block.pressure_drop)
     T, duty, outlet_enthalpy = energy_outlet(
         block,

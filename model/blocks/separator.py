@@ -7,7 +7,7 @@ from typing import Any
 
 import numpy as np
 
-from model.blocks.base import BlockOutput, CompiledBlock, enthalpies
+from model.blocks.base import BlockOutput, CompiledBlock, enthalpies, one_phase
 from model.blocks.result import BlockResult
 from model.flowsheet.kinds import AS_INLET
 from model.properties.stream_state import StreamState
@@ -61,7 +61,7 @@ def compute_separator(
             flows,
             inlet.T if T is None else T,
             inlet.P if P is None else P,
-            inlet.phase if phase is None else phase,
+            one_phase(block, inlet.phase, f"phase{port[-1]}") if phase is None else phase,
         )
     h_in, h_first, h_second = enthalpies(basis, [inlet, outlets["out1"], outlets["out2"]])
     return BlockOutput(outlets, BlockResult(duty_W=float(h_first + h_second - h_in)))

@@ -74,6 +74,7 @@ def compute_splitter(
             inlet.P,
             inlet.phase,
             None if known is None else known * float(share),
+            None if inlet.vapor_flows is None else inlet.vapor_flows * share,
         )
         for port, share in zip(block.outlet_ports, shares, strict=True)
     }

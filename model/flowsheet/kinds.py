@@ -29,6 +29,9 @@ from typing import Any
 
 PHASES = ("vapor", "liquid")
 AS_INLET = "as inlet"
+#: A heater outlet whose phase (vapor, liquid or both) comes from the case's phase
+#: equilibrium at the outlet's T and P, or at its enthalpy in duty mode.
+EQUILIBRIUM = "equilibrium"
 
 
 @dataclass(frozen=True)
@@ -92,6 +95,18 @@ _PHASE_OR_INLET = (AS_INLET, *PHASES)
 def _phase(name: str = "phase", label: str = "Outlet phase", default: str = AS_INLET) -> SpecField:
     choices = _PHASE_OR_INLET if default == AS_INLET else PHASES
     return SpecField(name, label, "choice", default=default, choices=choices)
+
+
+def _phase_or_equilibrium(name: str = "phase", label: str = "Outlet phase") -> SpecField:
+    return SpecField(
+        name,
+        label,
+        "choice",
+        default=AS_INLET,
+        choices=(*_PHASE_OR_INLET, EQUILIBRIUM),
+        help="'equilibrium': vapor, liquid or both, from the case's property method "
+        "(a duty spec then includes the latent heat).",
+    )
 
 
 def _pressure_drop(name: str = "pressure_drop", label: str = "Pressure drop") -> SpecField:
@@ -298,7 +313,7 @@ HEATER = BlockKind(
             needed_when=("mode", ("duty",)),
             help="Heat added; negative for a cooler.",
         ),
-        _phase(),
+        _phase_or_equilibrium(),
         _pressure_drop(),
     ),
     description="Heats or cools one stream (a cooler is a heater with negative duty).",
@@ -332,8 +347,8 @@ EXCHANGER = BlockKind(
         SpecField(
             "duty", "Duty (heat from hot to cold side)", "power", needed_when=("mode", ("duty",))
         ),
-        _phase("hot_phase", "Hot outlet phase"),
-        _phase("cold_phase", "Cold outlet phase"),
+        _phase_or_equilibrium("hot_phase", "Hot outlet phase"),
+        _phase_or_equilibrium("cold_phase", "Cold outlet phase"),
         SpecField(
             "minimum_approach",
             "Minimum approach",

@@ -28,6 +28,7 @@ from model.properties.vapor_pressure import VaporPressureData
 IDEAL = "ideal"
 _T_TOLERANCE = 1e-9  # K
 _CACHE_SIZE = 16
+_SHARE_ROUNDING = 1e-9  # of the latent heat: a T search's 1e-9 K is far below it
 _LN_K_LIMIT = 700.0  # |ln K| beyond this is held there: exp() stays finite
 
 
@@ -91,7 +92,27 @@ class EquilibriumSearch:
                 f"an enthalpy flow this stream reaches between {T_SEARCH_MIN:g} K and "
                 f"{T_SEARCH_MAX:g} K at {P:.6g} Pa",
             )
-        return self.flash_TP(flows, T, P)
+        result = self.flash_TP(flows, T, P)
+        if np.count_nonzero(np.asarray(flows) > 0.0) == 1:
+            return self._lever_rule(result, enthalpy_flow)
+        return result
+
+    def _lever_rule(self, result: FlashResult, enthalpy_flow: float) -> FlashResult:
+        """One component boils at one temperature: the enthalpy jumps there by the
+        latent heat, and the search stops on the jump. The vapor fraction is then the
+        share of the latent heat the target holds (liquid and vapor of one composition)."""
+        basis = self.basis
+        flows = result.vapor_flows + result.liquid_flows
+        h_liquid = basis.stream_enthalpy_flow(flows, result.T, True)
+        h_vapor = basis.stream_enthalpy_flow(flows, result.T, False)
+        if not h_vapor > h_liquid:
+            return result
+        share = (enthalpy_flow - h_liquid) / (h_vapor - h_liquid)
+        if not _SHARE_ROUNDING < share < 1.0 - _SHARE_ROUNDING:  # one phase, off the jump
+            return result
+        vapor = share * flows
+        liquid = flows - vapor
+        return FlashResult(result.T, result.P, vapor, liquid, share, "two-phase", result.K)
 
     def bubble_point(self, flows: np.ndarray, P: float, T_guess: float = 298.15) -> float | None:
         """Bubble temperature (K) at P (Pa); None where none lies in [10 K, 6000 K]."""

@@ -27,6 +27,9 @@ from typing import Any
 
 import numpy as np
 
+from model.blocks.base import enthalpy as stream_enthalpy
+from model.properties.stream_state import TWO_PHASE
+
 #: Closure threshold as a multiple of the solver tolerance (see the module docstring).
 CLOSURE_FACTOR = 10.0
 ELEMENT_FLOOR = 1e-9
@@ -154,6 +157,9 @@ def balance_report(
             np.array([streams[n].T for n in names]),
             np.array([streams[n].phase == "liquid" for n in names]),
         )
+        for i, name in enumerate(names):  # a two-phase stream: both phases' enthalpy
+            if streams[name].phase == TWO_PHASE:
+                enthalpy[i] = stream_enthalpy(basis, streams[name])
         return (
             float((flows @ basis.molar_mass).sum()),
             basis.element_matrix @ flows.sum(0),

@@ -15,7 +15,7 @@ from typing import Any
 
 from model.errors import InputError
 from model.flowsheet.document import Block, Flowsheet, Stream
-from model.flowsheet.kinds import AS_INLET
+from model.flowsheet.kinds import AS_INLET, EQUILIBRIUM
 from model.flowsheet.value_checks import flow_kind
 from model.validation.issue import Issue
 from units_of_measure.conversion import to_internal
@@ -319,6 +319,8 @@ def _outlet_phase(
         return stream.source_port if stream.source_port in ("vapor", "liquid") else None
     field, inlet_ports = _PHASE_RULES.get((block.kind, stream.source_port), (None, None))
     chosen = block.specs.get(field) if field else AS_INLET
+    if chosen == EQUILIBRIUM:  # known only from the flash
+        return None
     if chosen != AS_INLET:
         return chosen if isinstance(chosen, str) else None
     inlet = {p for _, p in _inlet_phases(block, inlet_ports, ports, phases)}
@@ -350,11 +352,17 @@ def mixer_phase_issues(flowsheet: Flowsheet, ports: PortMap) -> list[Issue]:
 
 
 def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
-    """A flash drum needs the property method's data for every component of the case."""
+    """A flash drum (or a heater or exchanger with an "equilibrium" outlet phase) needs
+    the property method's data for every component of the case."""
     from model.properties.property_method import missing_data
 
     issues = []
     method = flowsheet.property_method
+    instead = (
+        "choose a named outlet phase instead"
+        if block.kind in ("Heater", "Exchanger")
+        else "use a separator with a stated split instead"
+    )
     for component in flowsheet.components:
         lacking = missing_data(method, component)
         if lacking is not None:
@@ -363,8 +371,7 @@ def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
                 Issue(
                     "error",
                     f"{block.name}.components: {component.name!r} has no {what} for the "
-                    f"{method} property method ({lacking}); use a separator with a "
-                    "stated split instead",
+                    f"{method} property method ({lacking}); {instead}",
                     block.name,
                     None,
                     "components",

@@ -19,7 +19,7 @@ from typing import Any
 
 from model.flowsheet import value_checks as values
 from model.flowsheet.document import Block, Flowsheet
-from model.flowsheet.kinds import SpecField
+from model.flowsheet.kinds import EQUILIBRIUM, SpecField
 from model.flowsheet.spec_checks import check_spec_value, element_balance_function
 from model.validation.flowsheet_checks import (
     PortMap,
@@ -73,7 +73,9 @@ def validate_flowsheet(flowsheet: Flowsheet) -> list[Issue]:
             issues += splitter_issues(block, ports)
         elif block.kind == "Feed":
             issues += feed_issues(block)
-        elif block.kind == "Flash drum":
+        elif block.kind == "Flash drum" or EQUILIBRIUM in (
+            block.specs.get(name) for name in ("phase", "hot_phase", "cold_phase")
+        ):
             issues += flash_drum_issues(flowsheet, block)
     issues += mixer_phase_issues(flowsheet, ports)
     return issues

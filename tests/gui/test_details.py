@@ -130,6 +130,25 @@ def test_mode_choice_shows_the_needed_fields(qtbot, pane, sheet):
     assert not form.form.isRowVisible(form.editors["T"])
 
 
+def test_heater_outlet_phase_offers_equilibrium(qtbot, pane, sheet):
+    sheet.add_block("Heater", "H1")
+    form = pane.show_block("H1")
+    combo = form.editors["phase"].combo
+    items = [combo.itemText(i) for i in range(combo.count())]
+    assert items == ["as inlet", "vapor", "liquid", "equilibrium"]
+    assert combo.currentText() == "as inlet"  # the default keeps old cases' meaning
+    combo.setCurrentIndex(combo.findText("equilibrium"))
+    combo.activated.emit(combo.currentIndex())
+    assert sheet.blocks["H1"].specs["phase"] == "equilibrium"
+    pane.undo_stack.undo()
+    assert sheet.blocks["H1"].specs["phase"] == "as inlet"
+    sheet.add_block("Exchanger", "X1")  # both of its sides offer it too
+    form = pane.show_block("X1")
+    for name in ("hot_phase", "cold_phase"):
+        combo = form.editors[name].combo
+        assert combo.findText("equilibrium") >= 0
+
+
 def test_conversion_above_one_is_refused_with_the_models_message(qtbot, pane, sheet):
     reaction = Reaction({"nitrogen": -1.0, "hydrogen": -3.0, "ammonia": 2.0}, "nitrogen", 0.25)
     sheet.add_block("Reactor", "R1", specs={"reactions": [reaction]})
