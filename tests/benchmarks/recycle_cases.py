@@ -69,17 +69,13 @@ def _reactor(sheet: Flowsheet, name: str, reactions: list[Reaction], T: float | 
         _block(sheet, "Reactor", name, reactions=reactions, T=TypedQuantity(T, "K"))
 
 
-def single_loop(recycle_ratio: float) -> Flowsheet:
-    """Feed -> mixer -> isomerisation reactor (30 % of n-butane) -> cooler -> splitter
-    sending ``recycle_ratio`` of its inlet back to the mixer.
-
-    Per pass the recycle's isobutane is multiplied by r and its n-butane by r (1 - 0.3);
-    temperatures are set by the reactor and cooler, so the dominant slope is r.
-    """
+def _butane_loop(reactions: list[Reaction], recycle_ratio: float) -> Flowsheet:
+    """Feed -> mixer -> reactor (``reactions``) at 420 K -> cooler at 330 K -> splitter
+    sending ``recycle_ratio`` of its inlet back to the mixer."""
     sheet = _sheet(["n-butane", "isobutane"])
     _feed(sheet, "Feed", {"n-butane": 10.0, "isobutane": 1.0}, 350.0, 5.0)
     _block(sheet, "Mixer", "Mixer")
-    _reactor(sheet, "Reactor", [Reaction(ISOMERISATION, "n-butane", 0.3, "isomerisation")], 420.0)
+    _reactor(sheet, "Reactor", reactions, 420.0)
     _block(sheet, "Heater", "Cooler", T=TypedQuantity(330.0, "K"))
     _block(sheet, "Splitter", "Splitter", fractions={"out1": recycle_ratio})
     _block(sheet, "Product", "Product")
@@ -90,6 +86,17 @@ def single_loop(recycle_ratio: float) -> Flowsheet:
     _connect(sheet, "Splitter.out1", "Mixer.in2", "recycle")
     _connect(sheet, "Splitter.out2", "Product.in", "product")
     return sheet
+
+
+def single_loop(recycle_ratio: float) -> Flowsheet:
+    """Feed -> mixer -> isomerisation reactor (30 % of n-butane) -> cooler -> splitter
+    sending ``recycle_ratio`` of its inlet back to the mixer.
+
+    Per pass the recycle's isobutane is multiplied by r and its n-butane by r (1 - 0.3);
+    temperatures are set by the reactor and cooler, so the dominant slope is r.
+    """
+    reaction = Reaction(ISOMERISATION, "n-butane", 0.3, "isomerisation")
+    return _butane_loop([reaction], recycle_ratio)
 
 
 def inert_and_purge() -> Flowsheet:
@@ -345,22 +352,9 @@ def reversible_isomerisation() -> Flowsheet:
     eigenvalues r = 0.9 (the total flow) and r (1 - a)(1 - b) = 0.1 (the split between
     the isomers). Neither flow follows a slope of its own.
     """
-    sheet = _sheet(["n-butane", "isobutane"])
-    _feed(sheet, "Feed", {"n-butane": 10.0, "isobutane": 1.0}, 350.0, 5.0)
-    _block(sheet, "Mixer", "Mixer")
     forward = Reaction(ISOMERISATION, "n-butane", 2.0 / 3.0, "isomerisation")
     backward = Reaction({"isobutane": -1.0, "n-butane": 1.0}, "isobutane", 2.0 / 3.0, "reverse")
-    _reactor(sheet, "Reactor", [forward, backward], 420.0)
-    _block(sheet, "Heater", "Cooler", T=TypedQuantity(330.0, "K"))
-    _block(sheet, "Splitter", "Splitter", fractions={"out1": 0.9})
-    _block(sheet, "Product", "Product")
-    _connect(sheet, "Feed.out", "Mixer.in1", "feed")
-    _connect(sheet, "Mixer.out", "Reactor.in", "reactor feed")
-    _connect(sheet, "Reactor.out", "Cooler.in", "effluent")
-    _connect(sheet, "Cooler.out", "Splitter.in", "cooled effluent")
-    _connect(sheet, "Splitter.out1", "Mixer.in2", "recycle")
-    _connect(sheet, "Splitter.out2", "Product.in", "product")
-    return sheet
+    return _butane_loop([forward, backward], 0.9)
 
 
 CASES: dict[str, tuple[Callable[[], Flowsheet], str]] = {
