@@ -11,7 +11,6 @@ is still exact, but the exchanger as specified cannot be built that way.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 from typing import Any
 
@@ -22,15 +21,17 @@ from model.blocks.base import (
     outlet_pressure,
     temperature_for_enthalpy,
 )
+from model.blocks.exchanger_zones import (
+    ZoneSide,
+    log_mean_temperature_difference,
+    zone_profile,
+)
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
 from model.flowsheet.kinds import AS_INLET, EQUILIBRIUM
 from model.properties.phase_equilibrium import FlashResult
 from model.properties.property_method import equilibrium_for
 from model.properties.stream_state import TWO_PHASE, StreamState
-
-#: Relative difference of the end differences below which the LMTD is their mean.
-EQUAL_ENDS = 1e-6
 
 
 @dataclass(kw_only=True)
@@ -65,13 +66,6 @@ def build_exchanger(common: dict[str, Any], specs: dict[str, Any], basis) -> Com
         hot_pressure_drop=float(specs.get("hot_pressure_drop") or 0.0),
         cold_pressure_drop=float(specs.get("cold_pressure_drop") or 0.0),
     )
-
-
-def log_mean_temperature_difference(dT1: float, dT2: float) -> float:
-    """LMTD of two positive end differences, with the equal-ends limit."""
-    if abs(dT1 - dT2) <= EQUAL_ENDS * max(dT1, dT2):
-        return 0.5 * (dT1 + dT2)
-    return (dT1 - dT2) / math.log1p((dT1 - dT2) / dT2)  # log1p: no cancellation near 1
 
 
 @dataclass
@@ -192,6 +186,55 @@ def _checks(
     return values
 
 
+def _zone_side(side: _Side, outlet: StreamState, h_in: float, h_out: float) -> ZoneSide:
+    return ZoneSide(
+        flows=side.inlet.flows,
+        h_in=h_in,
+        h_out=h_out,
+        T_in=side.inlet.T,
+        T_out=outlet.T,
+        P_in=side.inlet.P,
+        P_out=side.P,
+        equilibrium=side.phase == EQUILIBRIUM,
+        liquid=side.phase == "liquid",
+    )
+
+
+def _zone_figures(block, basis, sides, outlets, inlet_enthalpies, duty, values, warnings):
+    """Replace the end-temperature LMTD and UA by the zone analysis's
+    (:mod:`model.blocks.exchanger_zones`) and report its internal approach."""
+    (hot, cold), (h_hot, h_cold) = sides, inlet_enthalpies
+    try:
+        profile = zone_profile(
+            basis,
+            _zone_side(hot, outlets["hot_out"], h_hot, h_hot - duty),
+            _zone_side(cold, outlets["cold_out"], h_cold, h_cold + duty),
+            duty,
+        )
+    except InputError as error:
+        warnings.append(f"no zone analysis ({error.allowed}); LMTD and UA from the ends only")
+        return
+    approach = profile.minimum_approach
+    values["end-temperature LMTD"] = values["LMTD"]
+    values["minimum internal approach"] = (approach, "temperature_difference")
+    ua = profile.UA()
+    if ua is None:
+        del values["LMTD"], values["UA"]
+        warnings.append(
+            f"internal temperature cross: the sides meet {100 * profile.pinch_share:.0f} % "
+            f"of the duty from the hot inlet end (difference {approach:.3f} K there), "
+            "though both ends are positive; a counter-current exchanger cannot do this duty"
+        )
+        return
+    values["LMTD"] = (duty / ua, "temperature_difference")
+    values["UA"] = (ua, "heat_transfer_coefficient_area")
+    if block.minimum_approach is not None and approach < block.minimum_approach:
+        warnings.append(
+            f"internal approach {approach:.3f} K, {100 * profile.pinch_share:.0f} % of the "
+            f"duty from the hot inlet end, is below the minimum {block.minimum_approach:.3f} K"
+        )
+
+
 def _side(block, inlet: StreamState, phase: str | None, drop: float, what: str) -> _Side:
     """A side whose phase is kept from a two-phase inlet is flashed like an equilibrium one."""
     kept = phase or inlet.phase
@@ -232,8 +275,12 @@ def compute_exchanger(
         for side, port in ((hot, "hot_out"), (cold, "cold_out"))
     )
     if changed and "LMTD" in values:
-        warnings.append(
-            "LMTD and UA from the end temperatures only: with a phase change "
-            "inside, the temperature profile is not the one the LMTD assumes"
-        )
+        if strict:  # the final figures: worth a flash at every zone cut
+            enthalpy = (float(h_hot), float(h_cold))
+            _zone_figures(block, basis, (hot, cold), outlets, enthalpy, duty, values, warnings)
+        else:
+            warnings.append(
+                "LMTD and UA from the end temperatures only: with a phase change "
+                "inside, the temperature profile is not the one the LMTD assumes"
+            )
     return BlockOutput(outlets, BlockResult(duty_W=duty, values=values, warnings=warnings))
