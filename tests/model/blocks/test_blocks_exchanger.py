@@ -13,11 +13,11 @@ import math
 import pytest
 
 from model.blocks.exchanger import log_mean_temperature_difference
-from model.flowsheet.document import Flowsheet
-from model.flowsheet.spec_values import ComponentAmounts, TypedQuantity
+from model.flowsheet.spec_values import TypedQuantity
 from model.properties.components import define_component
 from model.properties.cp_correlations import CpCorrelation
 from model.solve.driver import solve_flowsheet
+from tests.model.blocks.sheets import feed_specs, one_block_sheet
 
 CP = 30.0  # J/mol/K
 
@@ -36,29 +36,13 @@ def _gas(name: str):
 
 
 def _exchanger(hot_flow, hot_in_T, cold_flow, cold_in_T, **specs):
-    sheet = Flowsheet()
-    sheet.add_component(_gas("hot gas"))
-    sheet.add_component(_gas("cold gas"))
-    for name, component, flow, T in (
-        ("H", "hot gas", hot_flow, hot_in_T),
-        ("C", "cold gas", cold_flow, cold_in_T),
-    ):
-        sheet.add_block(
-            "Feed",
-            name,
-            specs={
-                "flows": ComponentAmounts({component: flow}, "mol/s"),
-                "T": TypedQuantity(T, "K"),
-                "P": TypedQuantity(2.0, "bar"),
-            },
-        )
-    sheet.add_block("Exchanger", "X", specs=specs)
-    sheet.add_block("Product", "PH")
-    sheet.add_block("Product", "PC")
-    sheet.connect("H", "out", "X", "hot_in", "hot in")
-    sheet.connect("C", "out", "X", "cold_in", "cold in")
-    sheet.connect("X", "hot_out", "PH", "in", "hot out")
-    sheet.connect("X", "cold_out", "PC", "in", "cold out")
+    feeds = {
+        "hot_in": ("hot in", feed_specs({"hot gas": hot_flow}, hot_in_T, 2e5)),
+        "cold_in": ("cold in", feed_specs({"cold gas": cold_flow}, cold_in_T, 2e5)),
+    }
+    outlets = {"hot_out": "hot out", "cold_out": "cold out"}
+    gases = [_gas("hot gas"), _gas("cold gas")]
+    sheet = one_block_sheet(gases, "Exchanger", "X", specs, feeds, outlets)
     solution = solve_flowsheet(sheet)
     assert solution.status == "solved", solution.message
     return solution

@@ -14,12 +14,13 @@ import pytest
 from model.blocks import compute_block
 from model.errors import CalculationError
 from model.flowsheet.document import Flowsheet
-from model.flowsheet.spec_values import ComponentAmounts, Reaction, TypedQuantity
+from model.flowsheet.spec_values import Reaction, TypedQuantity
 from model.properties.components import lookup_component
 from model.properties.enthalpy import PropertyBasis
 from model.properties.stream_state import StreamState
 from model.solve.compile import compile_flowsheet
 from model.solve.driver import solve_flowsheet
+from tests.model.blocks.sheets import feed_specs, one_block_sheet
 
 NASA = {s.name: s for s in ct.Species.list_from_file("nasa_gas.yaml")}
 
@@ -55,23 +56,10 @@ def _hess(stoichiometry: dict[str, float]) -> float:
 
 
 def _reactor_sheet(reactions, inlet: dict[str, float], T_in=298.15, **specs) -> Flowsheet:
-    sheet = Flowsheet()
-    for name in COMPONENTS:
-        sheet.add_component(lookup_component(name))
-    sheet.add_block(
-        "Feed",
-        "F",
-        specs={
-            "flows": ComponentAmounts(inlet, "mol/s"),
-            "T": TypedQuantity(T_in, "K"),
-            "P": TypedQuantity(10.0, "bar"),
-        },
-    )
-    sheet.add_block("Reactor", "R", specs={"reactions": reactions, **specs})
-    sheet.add_block("Product", "P")
-    sheet.connect("F", "out", "R", "in", "feed")
-    sheet.connect("R", "out", "P", "in", "effluent")
-    return sheet
+    components = [lookup_component(name) for name in COMPONENTS]
+    feeds = {"in": ("feed", feed_specs(inlet, T_in, 10e5))}
+    specs = {"reactions": reactions, **specs}
+    return one_block_sheet(components, "Reactor", "R", specs, feeds, {"out": "effluent"})
 
 
 def test_reactions_apply_in_order_on_the_flow_present():

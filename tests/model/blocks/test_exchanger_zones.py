@@ -13,11 +13,11 @@ import pytest
 from scipy.integrate import quad
 from scipy.optimize import minimize_scalar
 
-from model.flowsheet.document import Flowsheet
-from model.flowsheet.spec_values import ComponentAmounts, TypedQuantity
+from model.flowsheet.spec_values import TypedQuantity
 from model.properties.components import lookup_component
 from model.properties.property_method import equilibrium_for
 from model.solve.driver import solve_flowsheet
+from tests.model.blocks.sheets import feed_specs, one_block_sheet
 
 P_ATM = 101325.0
 STEAM = 5.0  # mol/s of water vapor at 420 K, 1 atm, condensed to 340 K
@@ -25,19 +25,6 @@ STEAM = 5.0  # mol/s of water vapor at 420 K, 1 atm, condensed to 340 K
 
 def _condenser(cold_flow: float, minimum_approach: float | None = None):
     """Steam (hot, "equilibrium") to a 340 K outlet against liquid water at 300 K, 10 bar."""
-    sheet = Flowsheet()
-    sheet.add_component(lookup_component("water"))
-    for name, flow, T, P, phase in (
-        ("S", STEAM, 420.0, P_ATM, "vapor"),
-        ("C", cold_flow, 300.0, 1e6, "liquid"),
-    ):
-        specs = {
-            "flows": ComponentAmounts({"water": flow}, "mol/s"),
-            "T": TypedQuantity(T, "K"),
-            "P": TypedQuantity(P, "Pa"),
-            "phase": phase,
-        }
-        sheet.add_block("Feed", name, specs=specs)
     specs = {
         "mode": "hot outlet temperature",
         "hot_T": TypedQuantity(340.0, "K"),
@@ -46,13 +33,13 @@ def _condenser(cold_flow: float, minimum_approach: float | None = None):
     }
     if minimum_approach is not None:
         specs["minimum_approach"] = TypedQuantity(minimum_approach, "K")
-    sheet.add_block("Exchanger", "X", specs=specs)
-    sheet.add_block("Product", "PH")
-    sheet.add_block("Product", "PC")
-    sheet.connect("S", "out", "X", "hot_in", "hot")
-    sheet.connect("C", "out", "X", "cold_in", "cold")
-    sheet.connect("X", "hot_out", "PH", "in", "hot out")
-    sheet.connect("X", "cold_out", "PC", "in", "cold out")
+    feeds = {
+        "hot_in": ("hot", feed_specs({"water": STEAM}, 420.0, P_ATM, "vapor")),
+        "cold_in": ("cold", feed_specs({"water": cold_flow}, 300.0, 1e6, "liquid")),
+    }
+    outlets = {"hot_out": "hot out", "cold_out": "cold out"}
+    water = [lookup_component("water")]
+    sheet = one_block_sheet(water, "Exchanger", "X", specs, feeds, outlets)
     solution = solve_flowsheet(sheet)
     assert solution.converged, solution.message
     return solution
