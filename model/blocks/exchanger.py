@@ -221,8 +221,8 @@ def _zone_figures(block, basis, sides, outlets, inlet_enthalpies, duty, values, 
     if ua is None:
         del values["LMTD"], values["UA"]
         warnings.append(
-            f"internal temperature cross: the sides meet {100 * profile.pinch_share:.0f} % "
-            f"of the duty from the hot inlet end (difference {approach:.3f} K there), "
+            f"internal temperature cross: {100 * profile.pinch_share:.0f} % of the duty from "
+            f"the hot inlet end the cold side is {-approach:.3f} K hotter than the hot side, "
             "though both ends are positive; a counter-current exchanger cannot do this duty"
         )
         return
