@@ -19,7 +19,7 @@ from __future__ import annotations
 import numpy as np
 
 from convergence.points import Evaluated, Step
-from convergence.problem import TearLayout
+from convergence.problem import FRACTION_TO_BOUND, TearLayout
 from convergence.settings import SettingsSnapshot
 
 MEMORY = 30
@@ -87,5 +87,23 @@ class BroydenSteps:
                 step = point.step / self.scale
                 note = self._update(step, residual - self.f_previous)
         self.f_previous = residual
-        x_new = point.x - self._times_h(residual) * self.scale
-        return Step(x_new=x_new, kind="quasi-Newton", note=note)
+        step = -self._times_h(residual) * self.scale
+        share = self._share_within_bounds(point.x, step)
+        if share < 1.0:
+            shortened = f"quasi-Newton step shortened to {share:.3g} of its length at a lower bound"
+            note = shortened if note is None else f"{note}; {shortened}"
+        return Step(x_new=point.x + share * step, kind="quasi-Newton", note=note)
+
+    def _share_within_bounds(self, x: np.ndarray, step: np.ndarray) -> float:
+        """Largest share (at most 1) of ``step`` that keeps every variable above the
+        bound it lies above, within ``FRACTION_TO_BOUND`` of the distance to it."""
+        bound = self.layout.lower_bound
+        if bound is None:
+            return 1.0
+        room = x - bound
+        crossing = (
+            (step < 0.0) & (room > 0.0) & (x + step <= bound + (1.0 - FRACTION_TO_BOUND) * room)
+        )
+        if not crossing.any():
+            return 1.0
+        return float(np.min(FRACTION_TO_BOUND * room[crossing] / -step[crossing]))

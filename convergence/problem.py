@@ -22,6 +22,9 @@ from convergence.errors import ConvergenceInputError
 # A variable whose step |x_k - x_{k-1}| is below this fraction of its scale gives no
 # usable slope: the secant quotient would be mostly rounding error.
 STEP_GUARD = 1e-12
+#: Share of the distance to its lower bound that one quasi-Newton step may take a
+#: variable (the fraction-to-the-boundary rule of interior-point methods).
+FRACTION_TO_BOUND = 0.9
 
 
 @dataclass
@@ -49,6 +52,12 @@ class FixedPointProblem:
         ``|x_k - x_{k-1}|`` gives no slope (that variable takes q = 0 clipped to the
         bounds); ``None``: ``STEP_GUARD`` times the variable's scale, so that trace
         components keep their acceleration while steps at rounding level give none.
+    lower_bound
+        Optional value per variable (or one) that the variables lie above (e.g. 0 for
+        flows, temperatures and pressures); a quasi-Newton step that would cross it
+        is shortened to go at most :data:`FRACTION_TO_BOUND` of the way there, so an
+        overshoot along a poorly estimated direction cannot jump far past it. ``None``:
+        no bound.
     """
 
     g: Callable[[np.ndarray], np.ndarray]
@@ -58,6 +67,7 @@ class FixedPointProblem:
     variable_names: list[str] | None = None
     scale: np.ndarray | float | None = None
     step_guard: np.ndarray | float | None = None
+    lower_bound: np.ndarray | float | None = None
 
     def __post_init__(self) -> None:
         TearLayout(self)
@@ -74,6 +84,18 @@ def _positive_vector(field: str, value: object, size: int, zero_allowed=False) -
     low_enough = vector >= 0.0 if zero_allowed else vector > 0.0
     if not np.all(np.isfinite(vector) & low_enough):
         raise ConvergenceInputError(field, value, f"{kind} finite numbers only")
+    return vector
+
+
+def _bound_vector(problem: FixedPointProblem, size: int) -> np.ndarray:
+    try:
+        vector = np.broadcast_to(np.asarray(problem.lower_bound, dtype=float), (size,)).copy()
+    except (TypeError, ValueError):
+        raise ConvergenceInputError(
+            "lower_bound", problem.lower_bound, f"a number or a vector of {size} numbers"
+        ) from None
+    if np.any(np.isnan(vector) | (vector == np.inf)):
+        raise ConvergenceInputError("lower_bound", problem.lower_bound, "numbers below +inf")
     return vector
 
 
@@ -136,6 +158,9 @@ class TearLayout:
             None
             if problem.step_guard is None
             else _positive_vector("step_guard", problem.step_guard, self.size, zero_allowed=True)
+        )
+        self.lower_bound = (
+            None if problem.lower_bound is None else _bound_vector(problem, self.size)
         )
         names = problem.variable_names
         if names is not None and len(names) != self.size:

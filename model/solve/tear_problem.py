@@ -203,7 +203,12 @@ class TearProblem:
 
         total_feed = float(sum(s.flows.sum() for s in self.feeds))
         self.problem = FixedPointProblem(
-            g, x_start, tears.slices, tears.abs_floor(total_feed), tears.variable_names
+            g,
+            x_start,
+            tears.slices,
+            tears.abs_floor(total_feed),
+            tears.variable_names,
+            lower_bound=0.0,  # flows, temperatures and pressures
         )
 
 

@@ -8,6 +8,7 @@ import pytest
 from scipy.optimize import root
 
 from convergence import FixedPointProblem, SolverSettings, solve_fixed_point
+from convergence.errors import ConvergenceInputError
 from tests.convergence.problems import reactor_loop, reactor_problem, wide_map
 
 
@@ -81,3 +82,39 @@ def test_restarts_are_recorded_as_events():
     fixed_bounds = SolverSettings(tolerance=1e-12, adaptive_bounds=False)
     wegstein = solve_fixed_point(problem, "wegstein", fixed_bounds)
     assert result.evaluations < wegstein.evaluations
+
+
+def test_a_lower_bound_keeps_a_slow_coupled_loop_from_jumping_below_zero():
+    # The single butane loop of tests/benchmarks/recycle_cases.py at recycle 0.95, as a
+    # linear map: per pass n-butane N' = 0.95 (0.7 (10 + N)) and isobutane
+    # I' = 0.95 (1 + I + 0.3 (10 + N)); a pass clips negative flows to zero, as the
+    # flowsheet's does. The first secant update sees one direction only, and the full
+    # quasi-Newton step from it lands far below zero flow (about -150 and -350 mol/s),
+    # which the clip sends back to the start: without the bound the run cycled.
+    r = 0.95
+    matrix = r * np.array([[0.7, 0.0], [0.3, 1.0]])
+    offsets = r * np.array([7.0, 4.0])
+    points = []
+
+    def g(x: np.ndarray) -> np.ndarray:
+        points.append(x.copy())
+        return np.maximum(matrix @ np.maximum(x, 0.0) + offsets, 0.0)
+
+    problem = FixedPointProblem(
+        g=g, x0=np.array([6.65, 3.8]), tear_slices={"recycle": slice(0, 2)}, lower_bound=0.0
+    )
+    result = solve_fixed_point(problem, "broyden", SolverSettings(tolerance=1e-10))
+    assert result.converged, result.message
+    # Reference: numpy.linalg.solve of (I - A) x = b; closed form N = 7r / (1 - 0.7r).
+    expected = np.linalg.solve(np.eye(2) - matrix, offsets)
+    assert expected[0] == pytest.approx(7 * r / (1 - 0.7 * r), rel=1e-12)
+    np.testing.assert_allclose(result.x, expected, rtol=1e-9)
+    assert min(point.min() for point in points) > 0.0
+    assert result.iterations <= 12  # a 2-variable linear map: about 2n secant steps
+
+
+def test_a_lower_bound_is_checked():
+    problem = FixedPointProblem(g=np.cos, x0=np.array([1.0]), tear_slices={"x": slice(0, 1)})
+    problem.lower_bound = float("nan")
+    with pytest.raises(ConvergenceInputError, match="lower_bound"):
+        solve_fixed_point(problem, "broyden")
