@@ -32,7 +32,8 @@ The "error" table gives, at the point where each method stopped, the largest sca
 distance from the fixed point computed to a residual of 1e-12 by scipy's MINPACK
 ``hybr``: it shows how much a residual-based stop understates the error on slow loops.
 
-Run: ``python -m tests.benchmarks.bench_recycle_methods [--quick]``.
+Run: ``python -m tests.benchmarks.bench_recycle_methods [--quick] [--variants]``
+(``--variants``: the held-out variants of :mod:`tests.benchmarks.recycle_variants`).
 """
 
 from __future__ import annotations
@@ -49,7 +50,8 @@ from scipy.optimize import root
 from convergence import FixedPointProblem, SolverSettings, solve_fixed_point
 from model.errors import LoopwrightError
 from model.solve.tear_problem import build_tear_problem
-from tests.benchmarks.recycle_cases import CASES, build_case
+from tests.benchmarks.recycle_cases import CASES
+from tests.benchmarks.recycle_variants import VARIANTS
 
 TOLERANCE = 1e-8
 #: A run that "converged" farther than this (scaled) from the reference fixed point found
@@ -57,6 +59,12 @@ TOLERANCE = 1e-8
 #: taking all there is); it is marked, and not counted as converged for the goal.
 ELSEWHERE = 1e-6
 PREVIOUS_DEFAULTS = {"stop_on": "residual", "adaptive_bounds": False, "dominant_slope": False}
+
+
+def build_case(name: str):
+    """A fresh flowsheet of a suite case or of a held-out variant."""
+    builder, _ = CASES[name] if name in CASES else VARIANTS[name]
+    return builder()
 
 
 class _Stop(Exception):
@@ -310,10 +318,11 @@ def markdown_tables(table: dict[str, dict], limit: int) -> str:
     )
 
 
-def main(quick: bool = False) -> dict:
-    """Measure, print the markdown tables, return the figures."""
+def main(quick: bool = False, variants: bool = False) -> dict:
+    """Measure (the suite, or its held-out variants), print the markdown tables, return
+    the figures."""
     limit = 300 if quick else 500
-    table = measure(limit)
+    table = measure(limit, list(VARIANTS) if variants else None)
     print(markdown_tables(table, limit))
     return {"limit": limit, "tolerance": TOLERANCE, "cases": table}
 
@@ -321,4 +330,8 @@ def main(quick: bool = False) -> dict:
 if __name__ == "__main__":
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--quick", action="store_true", help="lower pass limit")
-    main(quick=parser.parse_args().quick)
+    parser.add_argument(
+        "--variants", action="store_true", help="the held-out variants instead of the suite"
+    )
+    arguments = parser.parse_args()
+    main(quick=arguments.quick, variants=arguments.variants)
