@@ -12,7 +12,14 @@ from typing import Any
 
 from PySide6.QtCore import Qt
 from PySide6.QtGui import QUndoStack
-from PySide6.QtWidgets import QFormLayout, QGroupBox, QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import (
+    QFormLayout,
+    QGroupBox,
+    QLabel,
+    QPushButton,
+    QVBoxLayout,
+    QWidget,
+)
 
 from gui.commands_specs import push_spec_change
 from model.errors import LoopwrightError
@@ -91,7 +98,14 @@ class BlockForm(QWidget):
         self.results_label.setWordWrap(True)
         self.results_label.setTextFormat(Qt.TextFormat.RichText)
         self.results_label.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
-        QVBoxLayout(self.results_box).addWidget(self.results_label)
+        results_layout = QVBoxLayout(self.results_box)
+        results_layout.addWidget(self.results_label)
+        self.heat_curve_button = QPushButton("Heat Curve…")
+        self.heat_curve_button.setToolTip("Both sides' temperatures against the heat passed")
+        self.heat_curve_button.clicked.connect(self.show_heat_curve)
+        self.heat_curve_button.setVisible(False)
+        results_layout.addWidget(self.heat_curve_button)
+        self.heat_curve_dialog = None
         layout = QVBoxLayout(self)
         layout.addWidget(self.title_label)
         layout.addWidget(self.description_label)
@@ -149,6 +163,26 @@ class BlockForm(QWidget):
         self.results_label.setText(
             block_results_html(solution, self.context.block_name, self.context.unit_system_getter())
         )
+        self.heat_curve_button.setVisible(bool(self._profile()))
+
+    def _profile(self) -> dict[str, list[float]]:
+        blocks = getattr(self._solution, "blocks", None) or {}
+        result = blocks.get(self.context.block_name)
+        return getattr(result, "profile", None) or {}
+
+    def show_heat_curve(self) -> None:
+        """Open the heat curve of this exchanger's last result (a window of its own)."""
+        from .heat_curve_dialog import HeatCurveDialog  # loads pyqtgraph
+
+        profile = self._profile()
+        if not profile:
+            return
+        if self.heat_curve_dialog is not None:
+            self.heat_curve_dialog.close()
+        self.heat_curve_dialog = HeatCurveDialog(
+            self.context.block_name, profile, self.context.unit_system_getter(), self
+        )
+        self.heat_curve_dialog.show()
 
     # ---- applying edits ---------------------------------------------------------
     def apply(self, name: str, value: Any) -> bool:

@@ -186,7 +186,12 @@ def _checks(
     return values
 
 
-def _zone_side(side: _Side, outlet: StreamState, h_in: float, h_out: float) -> ZoneSide:
+def _zone_side(
+    side: _Side, outlet: StreamState, h_in: float, h_out: float, flashed: bool
+) -> ZoneSide:
+    """A side for the heat curve; one that does not change phase is searched in its one
+    phase (no flash needed at its cuts)."""
+    one_phase = outlet.phase if not flashed else side.phase
     return ZoneSide(
         flows=side.inlet.flows,
         h_in=h_in,
@@ -195,25 +200,38 @@ def _zone_side(side: _Side, outlet: StreamState, h_in: float, h_out: float) -> Z
         T_out=outlet.T,
         P_in=side.inlet.P,
         P_out=side.P,
-        equilibrium=side.phase == EQUILIBRIUM,
-        liquid=side.phase == "liquid",
+        equilibrium=flashed,
+        liquid=one_phase == "liquid",
     )
 
 
-def _zone_figures(block, basis, sides, outlets, inlet_enthalpies, duty, values, warnings):
-    """Replace the end-temperature LMTD and UA by the zone analysis's
-    (:mod:`model.blocks.exchanger_zones`) and report its internal approach."""
+def _changes_phase(side: _Side, outlet: StreamState) -> bool:
+    """On a flashed side: the phase changes, or the side is two-phase at an end."""
+    if side.flash is None:
+        return False
+    return TWO_PHASE in (side.inlet.phase, outlet.phase) or side.inlet.phase != outlet.phase
+
+
+def _profile(basis, sides, outlets, inlet_enthalpies, duty, changes, warnings):
+    """The heat curve (:func:`model.blocks.exchanger_zones.zone_profile`), or None (with
+    a warning where a phase changes) when a cut is out of the temperature search's reach."""
     (hot, cold), (h_hot, h_cold) = sides, inlet_enthalpies
     try:
-        profile = zone_profile(
+        return zone_profile(
             basis,
-            _zone_side(hot, outlets["hot_out"], h_hot, h_hot - duty),
-            _zone_side(cold, outlets["cold_out"], h_cold, h_cold + duty),
+            _zone_side(hot, outlets["hot_out"], h_hot, h_hot - duty, changes["hot_out"]),
+            _zone_side(cold, outlets["cold_out"], h_cold, h_cold + duty, changes["cold_out"]),
             duty,
         )
     except InputError as error:
-        warnings.append(f"no zone analysis ({error.allowed}); LMTD and UA from the ends only")
-        return
+        if any(changes.values()):
+            warnings.append(f"no zone analysis ({error.allowed}); LMTD and UA from the ends only")
+        return None
+
+
+def _zone_figures(block, profile, duty, values, warnings) -> None:
+    """Replace the end-temperature LMTD and UA by the zone analysis's
+    (:mod:`model.blocks.exchanger_zones`) and report its internal approach."""
     approach = profile.minimum_approach
     values["end-temperature LMTD"] = values["LMTD"]
     values["minimum internal approach"] = (approach, "temperature_difference")
@@ -268,19 +286,27 @@ def compute_exchanger(
     for name, side in (("hot", hot), ("cold", cold)):
         if side.flash is not None:
             values[f"{name} outlet vapor fraction"] = (float(side.flash.vapor_fraction), "")
-    changed = any(  # on an equilibrium side: the phase changes, or is two-phase
-        side.flash is not None
-        and TWO_PHASE in (side.inlet.phase, outlets[port].phase)
-        or (side.flash is not None and side.inlet.phase != outlets[port].phase)
+    changes = {
+        port: _changes_phase(side, outlets[port])
         for side, port in ((hot, "hot_out"), (cold, "cold_out"))
-    )
-    if changed and "LMTD" in values:
-        if strict:  # the final figures: worth a flash at every zone cut
-            enthalpy = (float(h_hot), float(h_cold))
-            _zone_figures(block, basis, (hot, cold), outlets, enthalpy, duty, values, warnings)
-        else:
-            warnings.append(
-                "LMTD and UA from the end temperatures only: with a phase change "
-                "inside, the temperature profile is not the one the LMTD assumes"
-            )
-    return BlockOutput(outlets, BlockResult(duty_W=duty, values=values, warnings=warnings))
+    }
+    changed = any(changes.values())
+    result = BlockResult(duty_W=duty, values=values, warnings=warnings)
+    if strict and duty > 0.0 and min(hot_in.flows.sum(), cold_in.flows.sum()) > 0.0:
+        # the final figures: worth a temperature search (a flash) at every cut
+        enthalpy = (float(h_hot), float(h_cold))
+        profile = _profile(basis, (hot, cold), outlets, enthalpy, duty, changes, warnings)
+        if profile is not None:
+            result.profile = {
+                "heat passed": profile.heat_passed.tolist(),
+                "hot T": profile.hot_T.tolist(),
+                "cold T": profile.cold_T.tolist(),
+            }
+            if changed and "LMTD" in values:
+                _zone_figures(block, profile, duty, values, warnings)
+    elif changed and "LMTD" in values:
+        warnings.append(
+            "LMTD and UA from the end temperatures only: with a phase change "
+            "inside, the temperature profile is not the one the LMTD assumes"
+        )
+    return BlockOutput(outlets, result)

@@ -19,18 +19,26 @@ class BlockResult:
         numbers), e.g. ``{"LMTD": (35.2, "temperature_difference")}``.
     warnings
         Plain-words warnings (temperature cross, clipped flows ...).
+    profile
+        An exchanger's heat curve (empty for other blocks): ``"heat passed"`` (W, from
+        the hot inlet end), ``"hot T"`` and ``"cold T"`` (K) at each cut of the duty,
+        see :mod:`model.blocks.exchanger_zones`.
     """
 
     duty_W: float | None = None
     values: dict[str, tuple[float, str]] = field(default_factory=dict)
     warnings: list[str] = field(default_factory=list)
+    profile: dict[str, list[float]] = field(default_factory=dict)
 
     def to_dict(self) -> dict[str, Any]:
-        return {
+        data = {
             "duty_W": self.duty_W,
             "values": {name: [value, kind] for name, (value, kind) in self.values.items()},
             "warnings": list(self.warnings),
         }
+        if self.profile:
+            data["profile"] = {name: list(points) for name, points in self.profile.items()}
+        return data
 
     @classmethod
     def from_dict(cls, data: dict[str, Any]) -> BlockResult:
@@ -39,4 +47,8 @@ class BlockResult:
             None if duty is None else float(duty),
             {name: (float(v), str(k)) for name, (v, k) in data.get("values", {}).items()},
             [str(w) for w in data.get("warnings", [])],
+            {
+                str(name): [float(v) for v in points]
+                for name, points in data.get("profile", {}).items()
+            },
         )

@@ -143,9 +143,10 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``T_K``, ``P_Pa``, ``phase``, ``vapor_fraction``, for two phases
     ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``, in a case with a
     flash drum ``bubble_point_K`` and ``dew_point_K``, null where none), ``blocks``
-    (name -> ``duty_W`` where the block has one), ``closure`` (relative closures ``mass``,
-    ``elements``, ``energy``), ``cautions`` and, when the case has targets, ``targets``
-    (:func:`model.report.target_lines.targets_summary`).
+    (name -> ``duty_W`` where the block has one; an exchanger's ``heat_curve``:
+    ``heat_passed_W`` from the hot inlet end, ``hot_T_K``, ``cold_T_K``), ``closure``
+    (relative closures ``mass``, ``elements``, ``energy``), ``cautions`` and, when the
+    case has targets, ``targets`` (:func:`model.report.target_lines.targets_summary`).
     """
     result = solution.convergence
     components = list(solution.component_names)
@@ -196,7 +197,7 @@ def solution_summary(solution: Any) -> dict[str, Any]:
         else {},
         "streams": streams,
         "blocks": {
-            name: {"duty_W": float(block.duty_W)}
+            name: {"duty_W": float(block.duty_W), **_heat_curve(block)}
             for name, block in solution.blocks.items()
             if block.duty_W is not None
         },
@@ -210,6 +211,14 @@ def solution_summary(solution: Any) -> dict[str, Any]:
         "cautions": list(CAUTIONS),
         **({} if targets is None else {"targets": targets}),
     }
+
+
+def _heat_curve(block: Any) -> dict[str, Any]:
+    """An exchanger's heat curve in SI, where it has one."""
+    if not block.profile:
+        return {}
+    keys = {"heat passed": "heat_passed_W", "hot T": "hot_T_K", "cold T": "cold_T_K"}
+    return {"heat_curve": {keys[name]: list(points) for name, points in block.profile.items()}}
 
 
 def _phase_flows(state: Any, components: list[str]) -> dict[str, Any]:

@@ -272,3 +272,24 @@ def test_solve_json_of_a_case_with_a_flash_drum_shows_vapor_fractions(capsys) ->
     # the drum's liquid leaves at its bubble point, its gas at its dew point (-10 degC)
     assert streams["Ammonia"]["bubble_point_K"] == pytest.approx(263.15, rel=1e-9)
     assert streams["Loop gas"]["dew_point_K"] == pytest.approx(263.15, rel=1e-9)
+
+
+def test_solve_json_gives_an_exchanger_its_heat_curve(capsys) -> None:
+    status, out, _ = _run(
+        capsys, "solve", str(EXAMPLES / "shift_feed_effluent_exchanger.loop.json"), "--json"
+    )
+    assert status == 0
+    summary = json.loads(out)
+    curve = summary["blocks"]["Feed-effluent exchanger"]["heat_curve"]
+    streams = summary["streams"]
+    duty = summary["blocks"]["Feed-effluent exchanger"]["duty_W"]
+    # its ends are the exchanger's own: heat passed 0 at the hot inlet (where the cold
+    # side leaves) and the duty at the hot outlet (where the cold side enters)
+    assert curve["heat_passed_W"][0] == 0.0
+    assert curve["heat_passed_W"][-1] == pytest.approx(duty, rel=1e-12)
+    assert curve["hot_T_K"][0] == pytest.approx(streams["Exchanger hot side"]["T_K"], rel=1e-12)
+    assert curve["hot_T_K"][-1] == pytest.approx(streams["Cooled effluent"]["T_K"], rel=1e-12)
+    assert curve["cold_T_K"][0] == pytest.approx(streams["Preheated gas"]["T_K"], rel=1e-12)
+    assert curve["cold_T_K"][-1] == pytest.approx(streams["Raw gas"]["T_K"], rel=1e-12)
+    hot = curve["hot_T_K"]
+    assert all(a > b for a, b in zip(hot, hot[1:], strict=False))  # it cools along the way

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
 import pytest
 
 from model.blocks.exchanger import log_mean_temperature_difference
@@ -118,3 +119,15 @@ def test_heat_flowing_cold_to_hot_is_reported():
     warnings = " | ".join(solution.blocks["X"].warnings)
     assert "hot inlet" in warnings and "colder than the cold inlet" in warnings
     assert "negative duty" in warnings
+
+
+def test_heat_curve_of_constant_heat_capacities_is_straight():
+    solution = _exchanger(1.0, 500.0, 2.0, 300.0, cold_T=TypedQuantity(350.0, "K"))
+    profile = solution.blocks["X"].profile
+    heat = np.array(profile["heat passed"])
+    assert heat[0] == 0.0 and heat[-1] == pytest.approx(3000.0, rel=1e-10)
+    # hand calculation: the hot side falls 1/30 K per W from 500 K, the cold side's
+    # outlet end is at 350 K and it falls 1/60 K per W toward its 300 K inlet
+    np.testing.assert_allclose(profile["hot T"], 500.0 - heat / 30.0, rtol=1e-9)
+    np.testing.assert_allclose(profile["cold T"], 350.0 - heat / 60.0, rtol=1e-9)
+    assert "minimum internal approach" not in solution.blocks["X"].values  # one phase
