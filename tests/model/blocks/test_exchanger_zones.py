@@ -112,3 +112,14 @@ def test_an_internal_approach_below_the_minimum_is_warned():
     assert any(
         "internal approach" in w and "below the minimum 35.000 K" in w for w in result.warnings
     )
+
+
+def test_the_heat_curve_is_kept_by_the_case_file():
+    from model.case.document import Case
+    from model.case.file import case_from_json, case_to_json
+
+    case = Case(flowsheet=condenser_sheet(60.0))
+    case.solution = case.solve()
+    profile = case.solution.blocks["X"].profile
+    reopened = case_from_json(case_to_json(case)).solution.blocks["X"].profile
+    assert reopened == profile and len(profile["hot T"]) > 21  # 20 zones + saturation cuts
