@@ -1,5 +1,6 @@
 """The spreadsheet export (``.xlsx``, written by openpyxl): summary, stream table, block
-results and balance closures, one sheet each.
+results and balance closures, one sheet each, and where the case has exchangers their
+heat curves (a table and a scatter chart per exchanger).
 
 Every sheet starts with the cautions (the summary sheet with all of them, the others
 with the short caution line) so a sheet copied on its own still carries them. Numbers
@@ -29,9 +30,9 @@ from model.report.csv_file import BLOCK_HEADER, CLOSURE_HEADER
 from model.report.report_order import ReportOrder
 from model.report.summary import summary_rows
 from model.report.table import stream_table, stream_table_rows
-from units_of_measure import format_value
+from units_of_measure import UNIT_SYSTEMS, format_value, from_internal_array
 
-SHEETS = ("Summary", "Streams", "Block results", "Balance closures")
+SHEETS = ("Summary", "Streams", "Block results", "Balance closures", "Heat curves")
 CAUTION_FONT = Font(bold=True, color="8A4B00")
 CAUTION_FILL = PatternFill("solid", fgColor="FFF4E0")
 HEADER_FONT = Font(bold=True)
@@ -60,6 +61,9 @@ def workbook_bytes(
         _streams_sheet(workbook.create_sheet(SHEETS[1]), solution, case.unit_system, order)
         _results_sheet(workbook.create_sheet(SHEETS[2]), solution, case.unit_system, order)
         _closures_sheet(workbook.create_sheet(SHEETS[3]), solution, case.unit_system)
+        curves = {name: r.profile for name, r in solution.blocks.items() if r.profile}
+        if curves:
+            _heat_curves_sheet(workbook.create_sheet(SHEETS[4]), curves, case.unit_system)
     buffer = io.BytesIO()
     workbook.save(buffer)
     return buffer.getvalue()
@@ -123,6 +127,56 @@ def _closures_sheet(sheet: Worksheet, solution: Any, unit_system: str) -> None:
     sheet.append([closure_threshold_text(solution.balance)])
     sheet.freeze_panes = "A3"
     _size_columns(sheet, first_row=2, last_row=sheet.max_row - 1)
+
+
+def _heat_curves_sheet(sheet: Worksheet, curves: dict[str, dict], unit_system: str) -> None:
+    """Per exchanger: heat passed, both sides' temperatures and their difference at each
+    cut, under its name, with a scatter chart of the two temperatures beside it."""
+    from openpyxl.chart import Reference, ScatterChart, Series
+
+    system = UNIT_SYSTEMS[unit_system]
+    power, temperature = system.unit_for("power"), system.unit_for("temperature")
+    difference = system.unit_for("temperature_difference")
+    _caution_row(sheet, CAUTION_LINE)
+    for name, profile in curves.items():
+        sheet.append([])
+        sheet.append([f"Exchanger {name}: heat curve (counter-current, from the hot inlet end)"])
+        sheet.cell(sheet.max_row, 1).font = HEADER_FONT
+        sheet.append(
+            [
+                f"heat passed [{power}]",
+                f"hot side T [{temperature}]",
+                f"cold side T [{temperature}]",
+                f"difference [{difference}]",
+            ]
+        )
+        header = sheet.max_row
+        _style_header(sheet, header)
+        columns = (
+            from_internal_array(profile["heat passed"], "power", power),
+            from_internal_array(profile["hot T"], "temperature", temperature),
+            from_internal_array(profile["cold T"], "temperature", temperature),
+            from_internal_array(
+                [h - c for h, c in zip(profile["hot T"], profile["cold T"], strict=True)],
+                "temperature_difference",
+                difference,
+            ),
+        )
+        for row in zip(*columns, strict=True):
+            sheet.append([float(v) for v in row])
+        chart = ScatterChart()
+        chart.title = f"{name}: heat curve"
+        chart.x_axis.title = f"heat passed [{power}]"
+        chart.y_axis.title = f"T [{temperature}]"
+        chart.style = 13
+        x = Reference(sheet, min_col=1, min_row=header + 1, max_row=sheet.max_row)
+        for column, side in ((2, "hot side"), (3, "cold side")):
+            values = Reference(sheet, min_col=column, min_row=header + 1, max_row=sheet.max_row)
+            series = Series(values, x, title=side)
+            series.marker.symbol = "circle"
+            chart.series.append(series)
+        sheet.add_chart(chart, f"F{header}")
+    _size_columns(sheet, first_row=2)
 
 
 def _caution_row(sheet: Worksheet, text: str) -> None:

@@ -5,6 +5,7 @@ from __future__ import annotations
 import csv
 import datetime
 import math
+import zipfile
 from pathlib import Path
 
 import openpyxl
@@ -54,13 +55,14 @@ def _numbers_match(cell, expected) -> None:
 
 
 def test_the_sheets_and_the_cautions_in_the_first_rows(workbook, solved):
-    assert workbook.sheetnames == list(SHEETS)
+    _, case = solved
+    has_curves = any(result.profile for result in case.solution.blocks.values())
+    assert workbook.sheetnames == list(SHEETS if has_curves else SHEETS[:4])
     summary = workbook["Summary"]
     assert [summary.cell(r, 2).value for r in (1, 2, 3)] == CAUTIONS
-    for name in SHEETS[1:]:
+    for name in workbook.sheetnames[1:]:
         assert workbook[name]["A1"].value.startswith(CAUTION_LINE)
     labels = {summary.cell(r, 1).value: summary.cell(r, 2).value for r in range(5, 30)}
-    _, case = solved
     assert labels["Title"] == case.title and labels["Exported"] == "2025-03-14 09:26"
     assert labels["Solver status"].startswith("solved: ")
     assert labels["Property basis"].startswith("Ideal: ")
@@ -189,3 +191,30 @@ def test_export_without_a_file_or_with_report_but_no_drawing_is_refused(capsys):
     assert "--csv FILE, --xlsx FILE or --report FILE" in capsys.readouterr().err
     assert main(["export", path, "--report", "r.pdf"]) == 2
     assert "window package" in capsys.readouterr().err
+
+
+def test_heat_curves_sheet_holds_each_exchangers_curve_and_a_chart(tmp_path):
+    case = load_case(EXAMPLES / "shift_feed_effluent_exchanger.loop.json")
+    case.unit_system = "US customary"
+    case.solve()
+    profile = case.solution.blocks["Feed-effluent exchanger"].profile
+    target = tmp_path / "case.xlsx"
+    write_file_atomically(target, workbook_bytes(case, None, WHEN))
+    sheet = openpyxl.load_workbook(target)["Heat curves"]
+    assert sheet["A3"].value.startswith("Exchanger Feed-effluent exchanger: heat curve")
+    assert [c.value for c in sheet[4]] == [
+        "heat passed [Btu/h]",
+        "hot side T [degF]",
+        "cold side T [degF]",
+        "difference [degF]",  # a difference: 1.8 per K, no offset (checked below)
+    ]
+    rows = list(sheet.iter_rows(min_row=5, max_col=4, values_only=True))
+    assert len(rows) == len(profile["hot T"])
+    # T(degF) = 1.8 T(K) - 459.67 and 1 Btu/h = 0.29307107 W (NIST SP 811)
+    for row, Q, hot, cold in zip(rows, *profile.values(), strict=True):
+        assert row[0] == pytest.approx(Q / 0.29307107, rel=1e-8)
+        assert row[1] == pytest.approx(1.8 * hot - 459.67, rel=1e-12)
+        assert row[2] == pytest.approx(1.8 * cold - 459.67, rel=1e-12)
+        assert row[3] == pytest.approx(1.8 * (hot - cold), rel=1e-9)
+    with zipfile.ZipFile(target) as archive:  # openpyxl does not read charts back
+        assert any(name.startswith("xl/charts/chart") for name in archive.namelist())
