@@ -9,9 +9,10 @@ of its size on screen: then A3, the usual sheet of a heat and material balance.
 Page 1 holds the title block, the cautions in full and the diagram, with the stream
 table under it when it fits (the classic H&MB sheet); the following pages hold the
 stream table (when not on page 1), the block results, the balance closures and the case
-summary, laid out and paginated by ``QTextDocument``. Every page ends with the cautions
-and the page number. :meth:`ReportPages.paint_page` paints one page on any
-``QPainter`` (the PDF writer, or an image for a preview).
+summary, laid out and paginated by ``QTextDocument``; then each exchanger's heat curve,
+two to a page, drawn as lines (the PDF stays vector). Every page ends with the cautions
+and the page number. :meth:`ReportPages.paint_page`
+paints one page on any ``QPainter`` (the PDF writer, or an image for a preview).
 """
 
 from __future__ import annotations
@@ -35,6 +36,7 @@ from PySide6.QtGui import (
 from gui.diagram import look
 from gui.report import tables_html
 from gui.report.diagram_print import PrintScene, diagram_scale, paint_diagram
+from gui.report.heat_curve_print import paint_heat_curve
 from model.report.block_table import result_rows
 from model.report.cautions import CAUTION_LINE, CAUTIONS
 from model.report.closure_table import closure_rows, closure_threshold_text
@@ -54,6 +56,7 @@ LINE_HEIGHT = 16.0
 GAP = 10.0
 LABEL_COLUMNS_WIDTH = 260.0  # quantity and unit, in page units
 STREAM_COLUMN_WIDTH = 88.0
+CURVES_PER_PAGE = 2
 CAUTION_FILL = QColor("#fff4e0")
 CAUTION_TEXT = QColor("#6b3b00")
 CAUTIONS_TEXT = "Cautions: " + " ".join(CAUTIONS)
@@ -187,8 +190,16 @@ class ReportPages:
             document.setTextWidth(self.body.width())
         return document
 
+    def _table_pages(self) -> int:
+        return self.document.pageCount() if not self.document.isEmpty() else 0
+
+    def _curve_pages(self) -> list[list[str]]:
+        """Exchangers with a heat curve, CURVES_PER_PAGE to a page."""
+        names = [name for name, r in self.case.solution.blocks.items() if r.profile]
+        return [names[i : i + CURVES_PER_PAGE] for i in range(0, len(names), CURVES_PER_PAGE)]
+
     def page_count(self) -> int:
-        return 1 + (self.document.pageCount() if not self.document.isEmpty() else 0)
+        return 1 + self._table_pages() + len(self._curve_pages())
 
     # ---- painting ---------------------------------------------------------------------
     def paint_page(self, painter: QPainter, index: int) -> None:
@@ -197,8 +208,10 @@ class ReportPages:
         painter.fillRect(self.page_rect, QColor("#ffffff"))
         if index == 0:
             self._paint_first_page(painter)
-        else:
+        elif index <= self._table_pages():
             self._paint_table_page(painter, index - 1)
+        else:
+            self._paint_curve_page(painter, self._curve_pages()[index - 1 - self._table_pages()])
         self._paint_footer(painter, index)
         painter.restore()
 
@@ -246,6 +259,22 @@ class ReportPages:
         painter.translate(0, -page * height)
         self.document.drawContents(painter, QRectF(0, page * height, self.body.width(), height))
         painter.restore()
+
+    def _paint_curve_page(self, painter: QPainter, names: list[str]) -> None:
+        """Heat curves, one under the other, each under its heading (vector drawing)."""
+        height = self.text_height / CURVES_PER_PAGE
+        for row, name in enumerate(names):
+            top = row * height
+            painter.setPen(look.SLATE)
+            painter.setFont(look.font(10.0, bold=True))
+            painter.drawText(
+                QRectF(0, top, self.body.width(), TITLE_HEIGHT),
+                Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter,
+                f"Heat curve: {name}",
+            )
+            box = QRectF(0, top + TITLE_HEIGHT, self.body.width(), height - TITLE_HEIGHT - GAP)
+            profile = self.case.solution.blocks[name].profile
+            paint_heat_curve(painter, box, profile, self.case.unit_system)
 
     def _paint_footer(self, painter: QPainter, index: int) -> None:
         body = self.body

@@ -221,3 +221,28 @@ def test_exporting_results_older_than_the_last_edit_asks_first(
     assert not (tmp_path / "late.xlsx").exists()
     window.select_stream("Bypass")
     assert window.details.stream_page.title_label.text().endswith("· stream 5")
+
+
+def test_the_report_draws_each_exchangers_heat_curve(qapp, screenshot_dir):
+    from gui.report.heat_curve_print import COLD, HOT, nice_ticks
+
+    path = EXAMPLES / "shift_feed_effluent_exchanger.loop.json"
+    case = load_case(path)
+    case.solve()
+    with ReportPages(case, path, WHEN) as pages:
+        assert pages._curve_pages() == [["Feed-effluent exchanger"]]
+        assert pages.page_count() == 2 + pages._table_pages()  # the curve's page is last
+    images = page_images(case, path.name, WHEN, scale=1.0)
+    drawn = [
+        image
+        for image in images[-1:]
+        if _has_colour_near(image, HOT, 0, image.height(), 30)
+        and _has_colour_near(image, COLD, 0, image.height(), 30)
+    ]
+    assert drawn, "no page shows both sides' curves"
+    for number, image in enumerate(drawn, start=1):
+        assert image.save(str(screenshot_dir / f"report_heat_curve_{number}.png"))
+    # round ticks: steps of 1, 2 or 5 times a power of ten, covering the range
+    assert nice_ticks(0.0, 600.943) == [0.0, 100.0, 200.0, 300.0, 400.0, 500.0, 600.0, 700.0]
+    assert nice_ticks(220.0, 391.3) == [200.0, 250.0, 300.0, 350.0, 400.0]
+    assert nice_ticks(5.0, 5.0) == [5.0, 6.0]  # a flat curve still gets an axis
