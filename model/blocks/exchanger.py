@@ -7,6 +7,11 @@ its limit ``(dT1 + dT2) / 2`` when the two are equal; ``UA = Q / LMTD``. A tempe
 cross (an end difference at or below zero), an approach below the minimum, a negative
 duty or a "hot" inlet colder than the "cold" one are reported as warnings: the balance
 is still exact, but the exchanger as specified cannot be built that way.
+
+In the final (strict) pass every exchanger also gets its heat curve, both sides'
+temperatures at cuts of the duty (:mod:`model.blocks.exchanger_zones`); where a flashed
+side changes phase, the LMTD and UA are the zone analysis's and the smallest difference
+inside is checked, since the end temperatures no longer tell it.
 """
 
 from __future__ import annotations
