@@ -4,16 +4,15 @@
 The equation of state, its mixing rules and the flash are ``thermo``'s
 (``FlashVL`` with ``CEOSGas``/``CEOSLiquid`` of ``PRMIX``); nothing of the equation is
 written here. Critical constants are the case's components' (the ones the enthalpy
-basis uses); the acentric factor comes from ``chemicals`` (``chemicals.acentric.omega``)
-and binary interaction parameters from thermo's ChemSep PR table where it has the pair,
-zero otherwise, with their source kept in :attr:`PengRobinsonEquilibrium.sources`.
+basis uses); the acentric factors and the binary interaction parameters are the case's
+recorded ones (:mod:`model.properties.property_data`: ``chemicals.acentric.omega`` and
+thermo's ChemSep PR table where it has the pair, zero otherwise, unless the case file
+says otherwise).
 The split is the equation's; enthalpies stay on the project's formation basis
 (ideal gas, Watson liquid), so energy balances are those of every other block.
 """
 
 from __future__ import annotations
-
-import functools
 
 import numpy as np
 
@@ -21,7 +20,7 @@ from model.errors import InputError
 from model.properties.phase_equilibrium import EquilibriumSearch, FlashResult
 
 PENG_ROBINSON = "Peng-Robinson"
-KIJ_SOURCE = "thermo IPDB 'ChemSep PR' table where it has the pair, else 0"
+EOS_SOURCE = "thermo FlashVL with PRMIX (Peng & Robinson 1976)"
 
 
 def acentric_factor(name: str, cas: str) -> float:
@@ -39,22 +38,21 @@ def acentric_factor(name: str, cas: str) -> float:
 
 
 class PengRobinsonEquilibrium(EquilibriumSearch):
-    """Peng-Robinson flashes of one component list (``basis`` order) by ``thermo``."""
+    """Peng-Robinson flashes of one component list (``basis`` order) by ``thermo``.
 
-    def __init__(self, basis) -> None:
+    ``omegas`` are the components' acentric factors and ``kijs`` the symmetric matrix of
+    binary interaction parameters, both in the basis's order.
+    """
+
+    def __init__(self, basis, omegas: list[float], kijs: list[list[float]]) -> None:
         from thermo import CEOSGas, CEOSLiquid, ChemicalConstantsPackage, FlashVL
         from thermo.eos_mix import PRMIX
 
         self.basis = basis
         components = basis.components
         cas = [c.cas for c in components]
-        self.omegas = [acentric_factor(c.name, c.cas) for c in components]
-        self.kijs = _kijs(tuple(cas))
-        self.sources = {
-            "omega": "chemicals.acentric.omega (default source)",
-            "kij": KIJ_SOURCE,
-            "equation of state": "thermo FlashVL with PRMIX (Peng & Robinson 1976)",
-        }
+        self.omegas = [float(w) for w in omegas]
+        self.kijs = [[float(k) for k in row] for row in kijs]
         constants = ChemicalConstantsPackage(
             Tcs=[c.Tc for c in components],
             Pcs=[c.Pc for c in components],
@@ -125,14 +123,3 @@ class PengRobinsonEquilibrium(EquilibriumSearch):
             return FlashResult(T, P, V * flows, (1.0 - V) * flows, V, phase, np.ones(1))
         return self.flash_TP(flows, T, P)
 
-
-@functools.cache
-def _kijs(cas: tuple[str, ...]) -> list[list[float]]:
-    from thermo.interaction_parameters import IPDB
-
-    if not all(cas):
-        return [[0.0] * len(cas) for _ in cas]
-    return [
-        list(map(float, row))
-        for row in IPDB.get_ip_asymmetric_matrix("ChemSep PR", list(cas), "kij")
-    ]

@@ -126,11 +126,33 @@ def solution_report(
     if duties:
         sections.append(["Blocks:", *(f"  {line}" for line in duties)])
     sections.append(["Balance closures:", *(f"  {line}" for line in closure_lines(solution))])
+    method = getattr(getattr(solution, "basis", None), "property_method", None)
+    if method is not None:
+        lines = property_data_lines(solution.basis)
+        sections.append([f"Property method: {method}", *(f"  {line}" for line in lines)])
     if solution.issues:
         sections.append(
             ["Log:", *(f"  {issue.severity}: {issue.message}" for issue in solution.issues)]
         )
     return "\n\n".join("\n".join(section) for section in sections) + "\n"
+
+
+def property_data_lines(basis: Any) -> list[str]:
+    """The constants the property method of ``basis`` uses, one line each with its source."""
+    from model.properties.property_data import describe
+    from model.properties.property_method import property_data_of
+
+    return describe(property_data_of(basis), basis.names, basis.property_method)
+
+
+def property_data_summary(basis: Any) -> dict[str, Any] | None:
+    """``{"method": ..., **constants}``: the ``--json`` entry of the property method."""
+    if basis is None:
+        return None
+    from model.properties.property_method import property_data_of
+
+    data = property_data_of(basis).to_json(basis.names, basis.property_method)
+    return {"method": basis.property_method, **data}
 
 
 def solution_summary(solution: Any) -> dict[str, Any]:
@@ -144,7 +166,8 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``, in a case with a
     flash drum ``bubble_point_K`` and ``dew_point_K``, null where none), ``blocks``
     (name -> ``duty_W`` where the block has one), ``closure`` (relative closures ``mass``,
-    ``elements``, ``energy``), ``cautions`` and, when the case has targets, ``targets``
+    ``elements``, ``energy``), ``property_data`` (the property method and the constants it
+    used, with their sources, as in the case file), ``cautions`` and, when the case has targets, ``targets``
     (:func:`model.report.target_lines.targets_summary`).
     """
     result = solution.convergence
@@ -207,6 +230,7 @@ def solution_summary(solution: Any) -> dict[str, Any]:
             "elements": float(balance.element_closure),
             "energy": float(balance.energy_closure),
         },
+        "property_data": property_data_summary(getattr(solution, "basis", None)),
         "cautions": list(CAUTIONS),
         **({} if targets is None else {"targets": targets}),
     }

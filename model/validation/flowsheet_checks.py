@@ -364,7 +364,7 @@ def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
         else "use a separator with a stated split instead"
     )
     for component in flowsheet.components:
-        lacking = missing_data(method, component)
+        lacking = missing_data(method, component, getattr(flowsheet, "property_data", None))
         if lacking is not None:
             what = "vapor-pressure data" if method == "ideal" else "an acentric factor"
             issues.append(
