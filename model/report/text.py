@@ -164,11 +164,13 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``tears`` (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
     ``T_K``, ``P_Pa``, ``phase``, ``vapor_fraction``, for two phases
     ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``, in a case with a
-    flash drum ``bubble_point_K`` and ``dew_point_K``, null where none), ``blocks``
+    flash drum ``bubble_point_K`` and ``dew_point_K``, null where none, with
+    ``bubble_point_note``/``dew_point_note`` saying why, e.g. "above the critical
+    temperature of ammonia"), ``blocks``
     (name -> ``duty_W`` where the block has one), ``closure`` (relative closures ``mass``,
     ``elements``, ``energy``), ``property_data`` (the property method and the constants it
-    used, with their sources, as in the case file), ``cautions`` and, when the case has targets, ``targets``
-    (:func:`model.report.target_lines.targets_summary`).
+    used, with their sources, as in the case file), ``cautions`` and, when the case has
+    targets, ``targets`` (:func:`model.report.target_lines.targets_summary`).
     """
     result = solution.convergence
     components = list(solution.component_names)
@@ -187,9 +189,11 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     points = saturation_points(solution, list(solution.streams.values()))
     if points is not None:  # a case with a flash drum: each stream's bubble and dew point
         for index, entry in enumerate(streams.values()):
-            for label, key in (("Bubble point", "bubble_point_K"), ("Dew point", "dew_point_K")):
-                value = points[label][index]
-                entry[key] = None if value != value else float(value)
+            for label, key in (("Bubble point", "bubble_point"), ("Dew point", "dew_point")):
+                point = points[label][index]
+                entry[f"{key}_K"] = None if point.T is None else float(point.T)
+                if point.T is None:
+                    entry[f"{key}_note"] = point.reason
     balance = solution.balance
     targets = targets_summary(solution)
     return {
