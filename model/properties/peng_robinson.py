@@ -82,10 +82,15 @@ class PengRobinsonEquilibrium(EquilibriumSearch):
         if n == 1:  # a pure fluid: its phase from its saturation temperature at P
             return self._pure_flash(flows, T, P)
         state = self._flasher.flash(T=float(T), P=float(P), zs=zs)
-        V = float(state.VF)
-        if state.gas is not None and state.liquid_count:
-            y = np.array(state.gas.zs)
-            x = np.array(state.liquid0.zs)
+        phases = list(state.phases)
+        if len(phases) == 2:
+            # thermo names the phases by its own identification rule, which at high
+            # pressure may call the gas a second liquid ("LL", e.g. the ammonia loop's
+            # drum at 151 bar); a vapor-liquid split's vapor is its lighter phase
+            light = 0 if phases[0].V() > phases[1].V() else 1
+            V = float(state.betas[light])
+            y = np.array(phases[light].zs)
+            x = np.array(phases[1 - light].zs)
             vapor = np.clip(V * total * y, 0.0, flows)
             K = y / np.where(x > 0.0, x, np.nan)
             return FlashResult(T, P, vapor, np.maximum(flows - vapor, 0.0), V, "two-phase", K)
