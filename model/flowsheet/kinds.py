@@ -169,7 +169,15 @@ MIXER = BlockKind(
     inlets=("in1", "in2"),
     outlets=("out",),
     spec_fields=(
-        _phase(),
+        SpecField(
+            "phase",
+            "Outlet phase",
+            "choice",
+            default=AS_INLET,
+            choices=(*_PHASE_OR_INLET, EQUILIBRIUM),
+            help="'equilibrium': vapor, liquid or both, from the case's property method at "
+            "the mixed enthalpy and the outlet pressure (two-phase inlets accepted).",
+        ),
         SpecField(
             "P",
             "Outlet pressure",

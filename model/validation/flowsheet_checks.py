@@ -360,7 +360,7 @@ def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
     method = flowsheet.property_method
     instead = (
         "choose a named outlet phase instead"
-        if block.kind in ("Heater", "Exchanger")
+        if block.kind in ("Heater", "Exchanger", "Mixer")
         else "use a separator with a stated split instead"
     )
     for component in flowsheet.components:
