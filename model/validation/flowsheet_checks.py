@@ -360,7 +360,7 @@ def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
     method = flowsheet.property_method
     instead = (
         "choose a named outlet phase instead"
-        if block.kind in ("Heater", "Exchanger", "Mixer")
+        if block.kind != "Flash drum"
         else "use a separator with a stated split instead"
     )
     for component in flowsheet.components:
