@@ -44,6 +44,8 @@ class PengRobinsonEquilibrium(EquilibriumSearch):
     binary interaction parameters, both in the basis's order.
     """
 
+    no_saturation_reason = "none found by thermo's Peng-Robinson flash"
+
     def __init__(self, basis, omegas: list[float], kijs: list[list[float]]) -> None:
         from thermo import CEOSGas, CEOSLiquid, ChemicalConstantsPackage, FlashVL
         from thermo.eos_mix import PRMIX
@@ -122,9 +124,34 @@ class PengRobinsonEquilibrium(EquilibriumSearch):
                 "vapor_fraction", vapor_fraction, f"a vapor fraction reached at {P:.6g} Pa"
             ) from error
         T = float(state.T)
+        if (
+            len(flows) > 1
+            and vapor_fraction in (0.0, 1.0)
+            and _other_saturation(state, flows, vapor_fraction)
+        ):
+            raise InputError(
+                "vapor_fraction",
+                vapor_fraction,
+                "a saturation point thermo's flash finds (it found the "
+                + ("dew point" if vapor_fraction == 0.0 else "bubble point")
+                + f" at {T:.2f} K instead)",
+            )
         if len(flows) == 1:  # a pure fluid at saturation: the split asked for
             V = float(vapor_fraction)
             phase = "liquid" if V == 0.0 else "vapor" if V == 1.0 else "two-phase"
             return FlashResult(T, P, V * flows, (1.0 - V) * flows, V, phase, np.ones(1))
         return self.flash_TP(flows, T, P)
 
+
+def _other_saturation(state, flows: np.ndarray, vapor_fraction: float) -> bool:
+    """True when thermo's P-VF flash at VF 0 or 1 returned the other saturation point: the
+    phase of the feed's composition is the vapor (larger molar volume) at a bubble
+    point, or the liquid at a dew point (thermo labels its phases by its own rule)."""
+    phases = list(state.phases)
+    if len(phases) != 2:
+        return False
+    z = flows / flows.sum()
+    distance = [float(np.max(np.abs(np.array(p.zs) - z))) for p in phases]
+    feed = int(np.argmin(distance))
+    feed_is_vapor = phases[feed].V() > phases[1 - feed].V()
+    return feed_is_vapor == (vapor_fraction == 0.0)

@@ -62,6 +62,8 @@ class EquilibriumSearch:
     ``flash_PV``."""
 
     basis: object
+    #: Why a bubble or dew point is none when the method's search finds none.
+    no_saturation_reason = f"none between {T_SEARCH_MIN:g} K and {T_SEARCH_MAX:g} K"
 
     def flash_TP(self, flows: np.ndarray, T: float, P: float) -> FlashResult:
         raise NotImplementedError
@@ -147,7 +149,7 @@ class EquilibriumSearch:
         try:
             T = self.flash_PV(flows, P, vapor_fraction, T_guess).T
         except InputError:
-            return SaturationPoint(None, f"none between {T_SEARCH_MIN:g} K and {T_SEARCH_MAX:g} K")
+            return SaturationPoint(None, self.no_saturation_reason)
         present = np.flatnonzero(flows > 0.0)
         critical = np.asarray(self.basis.Tc)[present]
         if T >= critical.max():

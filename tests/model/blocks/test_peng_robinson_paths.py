@@ -123,3 +123,19 @@ def test_exchanger_equilibrium_cold_side_by_peng_robinson_matches_thermo():
 def _set_feed(sheet, P_bar: float, phase: str) -> None:
     sheet.set_spec("F", "P", TypedQuantity(P_bar, "bar"))
     sheet.set_spec("F", "phase", phase)
+
+
+def test_drum_feed_by_peng_robinson_has_a_dew_point_and_no_bubble_point_found():
+    # thermo's P-VF flash at VF 1 (set up in the test) gives the dew point, 1e-6 rel.;
+    # at VF 0 it returns that same point with the feed as its gas, which is no bubble
+    # point: thermo's TP flash still finds gas at 150 K, so none lies near the drum
+    components = [lookup_component(name) for name in LOOP]
+    equilibrium = equilibrium_for(PropertyBasis(components, "Peng-Robinson"))
+    flasher = _reference_flasher([c.cas for c in components])
+    z = np.array(DRUM_FEED)
+    dew = flasher.flash(P=DRUM_P, VF=1.0, zs=DRUM_FEED).T
+    assert equilibrium.dew_point(z, DRUM_P, DRUM_T) == pytest.approx(dew, rel=1e-6)
+    cold = flasher.flash(T=150.0, P=DRUM_P, zs=DRUM_FEED)
+    assert cold.phase_count == 2 and _lighter_and_heavier(cold)[0][0] > 0.5
+    bubble = equilibrium.saturation(z, DRUM_P, 0.0, DRUM_T)
+    assert bubble.T is None and bubble.reason == "none found by thermo's Peng-Robinson flash"
