@@ -319,9 +319,7 @@ def _read_property_data(problems: Problems, value: Any, flowsheet: Flowsheet) ->
     from model.properties.property_data import completed
 
     recorded = read_property_data(problems, value, flowsheet)
-    flowsheet.property_data = completed(
-        recorded, flowsheet.components, flowsheet.property_method
-    )
+    flowsheet.property_data = completed(recorded, flowsheet.components, flowsheet.property_method)
 
 
 def _checked_header(data: Any, source: str, problems: Problems) -> dict[str, Any]:
