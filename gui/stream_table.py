@@ -131,7 +131,10 @@ def _window_row(row: report.TableRow, label: str) -> TableRow:
     """A model table row as the window shows it: values also in the display unit."""
     if not row.kind:
         return TableRow(label, "", None, row.values, row.values)
-    shown = tuple(from_internal(value, row.kind, row.unit_or_one) for value in row.values)
+    shown = tuple(
+        value if isinstance(value, str) else from_internal(value, row.kind, row.unit_or_one)
+        for value in row.values
+    )
     return TableRow(label, row.unit, row.kind, row.values, shown)
 
 

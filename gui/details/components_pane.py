@@ -24,6 +24,8 @@ from gui.commands import SetPropertyMethodCommand, execute
 from gui.commands_specs import AddComponentCommand, RemoveComponentCommand
 from model.errors import ComponentNotFoundError, InputError
 from model.flowsheet.document import Flowsheet
+from model.properties.peng_robinson import PENG_ROBINSON
+from model.properties.property_data import completed, pair_key
 from model.properties.property_method import PROPERTY_METHODS
 from model.properties.vapor_pressure import vapor_pressure_data
 from units_of_measure import UNIT_SYSTEMS, format_quantity
@@ -32,8 +34,11 @@ from .component_form import ComponentForm
 from .spec_editors import INVALID_COLOR, set_invalid_style
 
 
-def property_rows(component: Any, unit_system: str) -> list[tuple[str, str, str]]:
-    """``(property, value with unit, data source)`` for each constant the solve uses."""
+def property_rows(
+    component: Any, unit_system: str, flowsheet: Any = None
+) -> list[tuple[str, str, str]]:
+    """``(property, value with unit, data source)`` for each constant the solve uses; with
+    the case (``flowsheet``) also its property method's constants for the component."""
     system = UNIT_SYSTEMS[unit_system]
 
     def shown(value: float, kind: str) -> str:
@@ -60,16 +65,23 @@ def property_rows(component: Any, unit_system: str) -> list[tuple[str, str, str]
             shown(component.Hvap_Tb, "molar_enthalpy"),
             sources.get("Hvap_Tb", ""),
         ),
-        *_phase_rows(component),
+        *([] if flowsheet is None else _phase_rows(component, flowsheet)),
     ]
 
 
-def _phase_rows(component: Any) -> list[tuple[str, str, str]]:
-    """The ideal property method's vapor pressure and Henry constant, with sources."""
-    try:
-        data = vapor_pressure_data(component.name, component.cas, component.Tc)
-    except InputError as error:
-        return [("Vapor pressure (ideal method)", "no data", error.allowed)]
+def _phase_rows(component: Any, flowsheet: Any) -> list[tuple[str, str, str]]:
+    """The case's property method's constants for ``component`` (as recorded in the case,
+    else the libraries'), with sources."""
+    method = flowsheet.property_method
+    recorded = completed(flowsheet.property_data, flowsheet.components, method)
+    if method == PENG_ROBINSON:
+        return _peng_robinson_rows(component, flowsheet, recorded)
+    data = recorded.vapor_pressure.get(component.name)
+    if data is None:
+        try:
+            data = vapor_pressure_data(component.name, component.cas, component.Tc)
+        except InputError as error:
+            return [("Vapor pressure (ideal method)", "no data", error.allowed)]
     rows = [
         (
             "Vapor pressure (ideal method)",
@@ -85,6 +97,23 @@ def _phase_rows(component: Any) -> list[tuple[str, str, str]]:
                 data.henry_source,
             )
         )
+    return rows
+
+
+def _peng_robinson_rows(
+    component: Any, flowsheet: Any, recorded: Any
+) -> list[tuple[str, str, str]]:
+    """Acentric factor and the kij of every pair with ``component`` (Peng-Robinson)."""
+    omega = recorded.acentric_factor.get(component.name)
+    rows = [
+        ("Acentric factor (Peng-Robinson)", "no data", "chemicals.acentric.omega has none")
+        if omega is None
+        else ("Acentric factor (Peng-Robinson)", f"{omega.value:.6g}", omega.source)
+    ]
+    for other in flowsheet.components:
+        value = recorded.binary_parameters.get(pair_key(component.name, other.name))
+        if other.name != component.name and value is not None:
+            rows.append((f"kij with {other.name}", f"{value.value:.6g}", value.source))
     return rows
 
 
@@ -215,7 +244,7 @@ class ComponentsPane(QWidget):
             self.properties.clear()
             self.shown_rows = []
             return
-        self.shown_rows = property_rows(component, self._unit_system_getter())
+        self.shown_rows = property_rows(component, self._unit_system_getter(), self.flowsheet)
         self.properties_title.setText(
             f"<b>{html.escape(component.name)}</b>: values used "
             "by the solve, with their data sources"

@@ -5,6 +5,10 @@ Each reaction's extent is ``conversion * F_key / |nu_key|`` of the key reactant'
 standard heat of reaction per unit extent comes from the formation enthalpies (Hess's
 law); the energy balance needs no separate heat-of-reaction term because enthalpies
 are on a formation basis.
+
+An outlet phase "equilibrium" makes the outlet the case's flash at the outlet P and the
+set T, or, adiabatic or with a duty, at the inlet enthalpy plus the duty (the PH flash
+of :mod:`model.blocks.equilibrium_outlet`); the duty is then ``H_out - H_in``.
 """
 
 from __future__ import annotations
@@ -24,10 +28,12 @@ from model.blocks.base import (
     one_phase,
     outlet_pressure,
 )
+from model.blocks.equilibrium_outlet import flash_at_enthalpy
 from model.blocks.result import BlockResult
 from model.errors import CalculationError
-from model.flowsheet.kinds import AS_INLET
-from model.properties.stream_state import StreamState
+from model.flowsheet.kinds import AS_INLET, EQUILIBRIUM
+from model.properties.property_method import equilibrium_for
+from model.properties.stream_state import TWO_PHASE, StreamState
 
 
 @dataclass(kw_only=True)
@@ -125,8 +131,20 @@ def compute_reactor(
     inlet = inlets[0]
     warnings: list[str] = []
     flows, extents = react(block, inlet.flows, strict, warnings)
-    phase = one_phase(block, block.phase or inlet.phase)
     P = outlet_pressure(block, inlet.P, block.pressure_drop)
+    values: dict[str, tuple[float, str]] = {}
+    for label, extent, heat in zip(block.labels, extents, block.heats_of_reaction, strict=True):
+        values[f"extent {label}"] = (float(extent), "molar_flow")
+        values[f"heat of reaction {label}"] = (float(heat), "molar_enthalpy")
+    if block.phase == EQUILIBRIUM:
+        outlet, duty = _equilibrium_outlet(block, inlet, flows, P, basis, strict, warnings)
+        values["vapor fraction"] = (outlet.vapor_fraction(), "")
+        if block.mode != "outlet temperature":
+            values["temperature"] = (float(outlet.T), "temperature")
+        return BlockOutput(
+            {"out": outlet}, BlockResult(duty_W=duty, values=values, warnings=warnings)
+        )
+    phase = one_phase(block, block.phase or inlet.phase)
     T, duty, outlet_enthalpy = energy_outlet(
         block,
         basis,
@@ -141,9 +159,30 @@ def compute_reactor(
         warnings,
         block.at_set_temperature,
     )
-    values: dict[str, tuple[float, str]] = {}
-    for label, extent, heat in zip(block.labels, extents, block.heats_of_reaction, strict=True):
-        values[f"extent {label}"] = (float(extent), "molar_flow")
-        values[f"heat of reaction {label}"] = (float(heat), "molar_enthalpy")
     result = BlockResult(duty_W=duty, values=values, warnings=warnings)
     return BlockOutput({"out": StreamState(flows, T, P, phase, outlet_enthalpy)}, result)
+
+
+def _equilibrium_outlet(
+    block: CompiledReactor,
+    inlet: StreamState,
+    flows: np.ndarray,
+    P: float,
+    basis,
+    strict: bool,
+    warnings: list[str],
+) -> tuple[StreamState, float]:
+    """The outlet as the property method's flash, and the duty ``H_out - H_in`` (W)."""
+    equilibrium = equilibrium_for(basis)
+    h_in = enthalpy(basis, inlet)
+    if block.mode == "outlet temperature":
+        result = equilibrium.flash_TP(flows, float(block.T), P)
+    else:
+        added = float(block.duty) if block.mode == "duty" else 0.0
+        field = "duty" if block.mode == "duty" else "mode"
+        result = flash_at_enthalpy(
+            block, equilibrium, flows, P, h_in + added, inlet.T, strict, warnings, field
+        )
+    h_out = float(equilibrium.enthalpy_flow(result))
+    vapor = result.vapor_flows if result.phase == TWO_PHASE else None
+    return StreamState(flows, result.T, P, result.phase, h_out, vapor), h_out - h_in

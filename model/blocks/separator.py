@@ -1,4 +1,8 @@
-"""Separator: a stated fraction of each component to the first outlet; reports the duty."""
+"""Separator: a stated fraction of each component to the first outlet; reports the duty.
+
+An outlet whose phase is "equilibrium" is the case's flash of its flows at its T and P
+(vapor, liquid or two-phase); the split itself stays the one stated.
+"""
 
 from __future__ import annotations
 
@@ -9,8 +13,9 @@ import numpy as np
 
 from model.blocks.base import BlockOutput, CompiledBlock, enthalpies, one_phase
 from model.blocks.result import BlockResult
-from model.flowsheet.kinds import AS_INLET
-from model.properties.stream_state import StreamState
+from model.flowsheet.kinds import AS_INLET, EQUILIBRIUM
+from model.properties.property_method import equilibrium_for
+from model.properties.stream_state import TWO_PHASE, StreamState
 
 
 @dataclass(kw_only=True)
@@ -49,6 +54,7 @@ def compute_separator(
     first = inlet.flows * block.split
     second = np.maximum(inlet.flows - first, 0.0)
     outlets = {}
+    values: dict[str, tuple[float, str]] = {}
     for port, flows, T, P, phase in zip(
         ("out1", "out2"),
         (first, second),
@@ -57,11 +63,25 @@ def compute_separator(
         block.phases,
         strict=True,
     ):
+        T = inlet.T if T is None else T
+        P = inlet.P if P is None else P
+        if phase == EQUILIBRIUM:
+            outlets[port] = _flashed(basis, flows, T, P)
+            values[f"{port} vapor fraction"] = (outlets[port].vapor_fraction(), "")
+            continue
         outlets[port] = StreamState(
             flows,
-            inlet.T if T is None else T,
-            inlet.P if P is None else P,
+            T,
+            P,
             one_phase(block, inlet.phase, f"phase{port[-1]}") if phase is None else phase,
         )
     h_in, h_first, h_second = enthalpies(basis, [inlet, outlets["out1"], outlets["out2"]])
-    return BlockOutput(outlets, BlockResult(duty_W=float(h_first + h_second - h_in)))
+    return BlockOutput(outlets, BlockResult(duty_W=float(h_first + h_second - h_in), values=values))
+
+
+def _flashed(basis, flows: np.ndarray, T: float, P: float) -> StreamState:
+    """An outlet as the property method's isothermal flash of its flows."""
+    equilibrium = equilibrium_for(basis)
+    result = equilibrium.flash_TP(flows, T, P)
+    vapor = result.vapor_flows if result.phase == TWO_PHASE else None
+    return StreamState(flows, T, P, result.phase, float(equilibrium.enthalpy_flow(result)), vapor)

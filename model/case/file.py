@@ -22,6 +22,7 @@ from convergence.settings import SolverSettings
 from model.case.document import DEFAULT_METHOD, DEFAULT_UNIT_SYSTEM, Case
 from model.case.flowsheet_part import read_flowsheet
 from model.case.migrate import CURRENT_VERSION, OLDEST_VERSION, migrate
+from model.case.property_data_part import property_data_to_json, read_property_data
 from model.case.results_part import read_results
 from model.case.schema import MISSING, Problems, join, json_object_hook
 from model.case.specs import spec_to_json
@@ -46,6 +47,7 @@ TOP_KEYS = (
     "method",
     "solver_settings",
     "property_method",
+    "property_data",  # version 3 on (model/case/property_data_part.py)
     "components",
     "blocks",
     "streams",
@@ -68,6 +70,7 @@ def case_to_dict(case: Case) -> dict[str, Any]:
         "solver_settings": case.settings.to_dict(),
         "property_method": flowsheet.property_method,
         "components": [component.to_dict() for component in flowsheet.components],
+        "property_data": property_data_to_json(flowsheet),
         "blocks": [_block_to_dict(block) for block in flowsheet.blocks.values()],
         "streams": [_stream_to_dict(stream) for stream in flowsheet.streams.values()],
         "targets": targets_to_json(flowsheet.targets),
@@ -292,6 +295,8 @@ def _case_from_dict(data: Any, source: str) -> Case:
     read_flowsheet(problems, data, case.flowsheet)
     case.flowsheet.targets = read_targets(problems, data.get("targets", MISSING))
     _read_property_method(problems, data.get("property_method", "ideal"), case.flowsheet)
+    if not problems:
+        _read_property_data(problems, data.get("property_data", MISSING), case.flowsheet)
     if not problems and data.get("results") is not None:
         case.solution = read_results(problems, data["results"], case.flowsheet)
     if problems:
@@ -306,6 +311,15 @@ def _read_property_method(problems: Problems, value: Any, flowsheet: Flowsheet) 
     name = problems.choice("property_method", value, PROPERTY_METHODS)
     if name is not None:
         flowsheet.set_property_method(name)
+
+
+def _read_property_data(problems: Problems, value: Any, flowsheet: Flowsheet) -> None:
+    """The recorded constants of the property method; what the file lacks (all of it in
+    a file older than version 3) is taken from the libraries now and recorded."""
+    from model.properties.property_data import completed
+
+    recorded = read_property_data(problems, value, flowsheet)
+    flowsheet.property_data = completed(recorded, flowsheet.components, flowsheet.property_method)
 
 
 def _checked_header(data: Any, source: str, problems: Problems) -> dict[str, Any]:

@@ -18,7 +18,13 @@ Version 0 (the pre-release layout) differed from version 1 in this way:
   ``"preferred_tear"``.
 
 Version 2 added the top-level ``"targets"`` array (``model.case.targets_part``); a
-version-1 file has none, so its migration writes an empty one. Keys that are optional
+version-1 file has none, so its migration writes an empty one.
+
+Version 3 added the top-level ``"property_data"`` object: the property method's
+constants with their sources (``model.case.property_data_part``). A version-2 file
+has none; its migration leaves it absent, and loading then takes the constants of the
+libraries installed now (the ones a version-2 file was always solved with) and records
+them, so the case saves them and keeps them from then on. Keys that are optional
 and default to the old behaviour when absent need no version step.
 """
 
@@ -29,7 +35,7 @@ from typing import Any
 
 from model.flowsheet.kinds import BLOCK_KINDS
 
-CURRENT_VERSION = 2
+CURRENT_VERSION = 3
 
 # Internal unit of each quantity kind, as version 0 stored its bare numbers.
 VERSION_0_UNITS = {
@@ -126,9 +132,18 @@ def migrate_1_to_2(data: dict[str, Any]) -> dict[str, Any]:
     return data
 
 
+def migrate_2_to_3(data: dict[str, Any]) -> dict[str, Any]:
+    """Version 2 to version 3: no recorded property data (taken from the libraries when
+    the case is read, see the module docstring)."""
+    data = dict(data)
+    data["version"] = 3
+    return data
+
+
 MIGRATIONS: dict[int, Callable[[dict[str, Any]], dict[str, Any]]] = {
     0: migrate_0_to_1,
     1: migrate_1_to_2,
+    2: migrate_2_to_3,
 }
 OLDEST_VERSION = min(MIGRATIONS)
 

@@ -91,6 +91,9 @@ class Flowsheet:
         self.targets: list[Target] = []  # met by the outer loop (model.solve.targets)
         #: Phase equilibrium method of the case (model.properties.property_method).
         self.property_method = "ideal"
+        #: Constants of the property method recorded in the case, with their sources
+        #: (model.properties.property_data.PropertyData; None: the libraries' at solve time).
+        self.property_data: Any = None
 
     def set_property_method(self, name: str) -> None:
         """Choose the case's property method; an unknown name changes nothing."""

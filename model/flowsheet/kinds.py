@@ -109,6 +109,18 @@ def _phase_or_equilibrium(name: str = "phase", label: str = "Outlet phase") -> S
     )
 
 
+def _separator_phase(name: str, label: str, default: str) -> SpecField:
+    return SpecField(
+        name,
+        label,
+        "choice",
+        default=default,
+        choices=(*_PHASE_OR_INLET, EQUILIBRIUM),
+        help="'equilibrium': the outlet's flash at its temperature and pressure by the "
+        "case's property method (vapor, liquid or both).",
+    )
+
+
 def _pressure_drop(name: str = "pressure_drop", label: str = "Pressure drop") -> SpecField:
     return SpecField(
         name, label, "pressure_difference", required=False, help="Leave empty for no pressure drop."
@@ -169,7 +181,15 @@ MIXER = BlockKind(
     inlets=("in1", "in2"),
     outlets=("out",),
     spec_fields=(
-        _phase(),
+        SpecField(
+            "phase",
+            "Outlet phase",
+            "choice",
+            default=AS_INLET,
+            choices=(*_PHASE_OR_INLET, EQUILIBRIUM),
+            help="'equilibrium': vapor, liquid or both, from the case's property method at "
+            "the mixed enthalpy and the outlet pressure (two-phase inlets accepted).",
+        ),
         SpecField(
             "P",
             "Outlet pressure",
@@ -235,7 +255,7 @@ SEPARATOR = BlockKind(
             required=False,
             help="Leave empty for the inlet pressure.",
         ),
-        _phase("phase1", "First outlet phase", default="liquid"),
+        _separator_phase("phase1", "First outlet phase", default="liquid"),
         SpecField(
             "T2",
             "Second outlet temperature",
@@ -250,7 +270,7 @@ SEPARATOR = BlockKind(
             required=False,
             help="Leave empty for the inlet pressure.",
         ),
-        _phase("phase2", "Second outlet phase", default="vapor"),
+        _separator_phase("phase2", "Second outlet phase", default="vapor"),
     ),
     description="Sends a stated fraction of each component to the first outlet; reports the duty.",
     glyph="⫶",
@@ -284,7 +304,7 @@ REACTOR = BlockKind(
             needed_when=("mode", ("duty",)),
             help="Heat added to the reactor; negative for heat removed.",
         ),
-        _phase(),
+        _phase_or_equilibrium(),
         _pressure_drop(),
     ),
     description="Reactions at fixed fractional conversion of a key reactant.",

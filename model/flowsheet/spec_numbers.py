@@ -167,4 +167,11 @@ def flowsheet_with_numbers(flowsheet: Any, numbers: list[tuple[SpecAddress, floa
     return view
 
 
-_DOCUMENT_PARTS = ("components", "blocks", "streams", "targets", "property_method")
+_DOCUMENT_PARTS = (
+    "components",
+    "blocks",
+    "streams",
+    "targets",
+    "property_method",
+    "property_data",
+)

@@ -4,16 +4,15 @@
 The equation of state, its mixing rules and the flash are ``thermo``'s
 (``FlashVL`` with ``CEOSGas``/``CEOSLiquid`` of ``PRMIX``); nothing of the equation is
 written here. Critical constants are the case's components' (the ones the enthalpy
-basis uses); the acentric factor comes from ``chemicals`` (``chemicals.acentric.omega``)
-and binary interaction parameters from thermo's ChemSep PR table where it has the pair,
-zero otherwise, with their source kept in :attr:`PengRobinsonEquilibrium.sources`.
+basis uses); the acentric factors and the binary interaction parameters are the case's
+recorded ones (:mod:`model.properties.property_data`: ``chemicals.acentric.omega`` and
+thermo's ChemSep PR table where it has the pair, zero otherwise, unless the case file
+says otherwise).
 The split is the equation's; enthalpies stay on the project's formation basis
 (ideal gas, Watson liquid), so energy balances are those of every other block.
 """
 
 from __future__ import annotations
-
-import functools
 
 import numpy as np
 
@@ -21,7 +20,7 @@ from model.errors import InputError
 from model.properties.phase_equilibrium import EquilibriumSearch, FlashResult
 
 PENG_ROBINSON = "Peng-Robinson"
-KIJ_SOURCE = "thermo IPDB 'ChemSep PR' table where it has the pair, else 0"
+EOS_SOURCE = "thermo FlashVL with PRMIX (Peng & Robinson 1976)"
 
 
 def acentric_factor(name: str, cas: str) -> float:
@@ -39,22 +38,23 @@ def acentric_factor(name: str, cas: str) -> float:
 
 
 class PengRobinsonEquilibrium(EquilibriumSearch):
-    """Peng-Robinson flashes of one component list (``basis`` order) by ``thermo``."""
+    """Peng-Robinson flashes of one component list (``basis`` order) by ``thermo``.
 
-    def __init__(self, basis) -> None:
+    ``omegas`` are the components' acentric factors and ``kijs`` the symmetric matrix of
+    binary interaction parameters, both in the basis's order.
+    """
+
+    no_saturation_reason = "none found by thermo's Peng-Robinson flash"
+
+    def __init__(self, basis, omegas: list[float], kijs: list[list[float]]) -> None:
         from thermo import CEOSGas, CEOSLiquid, ChemicalConstantsPackage, FlashVL
         from thermo.eos_mix import PRMIX
 
         self.basis = basis
         components = basis.components
         cas = [c.cas for c in components]
-        self.omegas = [acentric_factor(c.name, c.cas) for c in components]
-        self.kijs = _kijs(tuple(cas))
-        self.sources = {
-            "omega": "chemicals.acentric.omega (default source)",
-            "kij": KIJ_SOURCE,
-            "equation of state": "thermo FlashVL with PRMIX (Peng & Robinson 1976)",
-        }
+        self.omegas = [float(w) for w in omegas]
+        self.kijs = [[float(k) for k in row] for row in kijs]
         constants = ChemicalConstantsPackage(
             Tcs=[c.Tc for c in components],
             Pcs=[c.Pc for c in components],
@@ -84,10 +84,15 @@ class PengRobinsonEquilibrium(EquilibriumSearch):
         if n == 1:  # a pure fluid: its phase from its saturation temperature at P
             return self._pure_flash(flows, T, P)
         state = self._flasher.flash(T=float(T), P=float(P), zs=zs)
-        V = float(state.VF)
-        if state.gas is not None and state.liquid_count:
-            y = np.array(state.gas.zs)
-            x = np.array(state.liquid0.zs)
+        phases = list(state.phases)
+        if len(phases) == 2:
+            # thermo names the phases by its own identification rule, which at high
+            # pressure may call the gas a second liquid ("LL", e.g. the ammonia loop's
+            # drum at 151 bar); a vapor-liquid split's vapor is its lighter phase
+            light = 0 if phases[0].V() > phases[1].V() else 1
+            V = float(state.betas[light])
+            y = np.array(phases[light].zs)
+            x = np.array(phases[1 - light].zs)
             vapor = np.clip(V * total * y, 0.0, flows)
             K = y / np.where(x > 0.0, x, np.nan)
             return FlashResult(T, P, vapor, np.maximum(flows - vapor, 0.0), V, "two-phase", K)
@@ -119,6 +124,18 @@ class PengRobinsonEquilibrium(EquilibriumSearch):
                 "vapor_fraction", vapor_fraction, f"a vapor fraction reached at {P:.6g} Pa"
             ) from error
         T = float(state.T)
+        if (
+            len(flows) > 1
+            and vapor_fraction in (0.0, 1.0)
+            and _other_saturation(state, flows, vapor_fraction)
+        ):
+            raise InputError(
+                "vapor_fraction",
+                vapor_fraction,
+                "a saturation point thermo's flash finds (it found the "
+                + ("dew point" if vapor_fraction == 0.0 else "bubble point")
+                + f" at {T:.2f} K instead)",
+            )
         if len(flows) == 1:  # a pure fluid at saturation: the split asked for
             V = float(vapor_fraction)
             phase = "liquid" if V == 0.0 else "vapor" if V == 1.0 else "two-phase"
@@ -126,13 +143,15 @@ class PengRobinsonEquilibrium(EquilibriumSearch):
         return self.flash_TP(flows, T, P)
 
 
-@functools.cache
-def _kijs(cas: tuple[str, ...]) -> list[list[float]]:
-    from thermo.interaction_parameters import IPDB
-
-    if not all(cas):
-        return [[0.0] * len(cas) for _ in cas]
-    return [
-        list(map(float, row))
-        for row in IPDB.get_ip_asymmetric_matrix("ChemSep PR", list(cas), "kij")
-    ]
+def _other_saturation(state, flows: np.ndarray, vapor_fraction: float) -> bool:
+    """True when thermo's P-VF flash at VF 0 or 1 returned the other saturation point: the
+    phase of the feed's composition is the vapor (larger molar volume) at a bubble
+    point, or the liquid at a dew point (thermo labels its phases by its own rule)."""
+    phases = list(state.phases)
+    if len(phases) != 2:
+        return False
+    z = flows / flows.sum()
+    distance = [float(np.max(np.abs(np.array(p.zs) - z))) for p in phases]
+    feed = int(np.argmin(distance))
+    feed_is_vapor = phases[feed].V() > phases[1 - feed].V()
+    return feed_is_vapor == (vapor_fraction == 0.0)

@@ -46,6 +46,15 @@ class FlashResult:
     K: np.ndarray
 
 
+@dataclass(frozen=True)
+class SaturationPoint:
+    """A bubble or dew temperature (K), or None with the reason there is none (e.g.
+    "above the critical temperature of ammonia")."""
+
+    T: float | None
+    reason: str = ""
+
+
 class EquilibriumSearch:
     """What every property method's equilibrium shares: the enthalpy of a flash's
     phases, the flash at a given enthalpy (a search on T over ``flash_TP``), and bubble
@@ -53,6 +62,8 @@ class EquilibriumSearch:
     ``flash_PV``."""
 
     basis: object
+    #: Why a bubble or dew point is none when the method's search finds none.
+    no_saturation_reason = f"none between {T_SEARCH_MIN:g} K and {T_SEARCH_MAX:g} K"
 
     def flash_TP(self, flows: np.ndarray, T: float, P: float) -> FlashResult:
         raise NotImplementedError
@@ -115,21 +126,36 @@ class EquilibriumSearch:
         return FlashResult(result.T, result.P, vapor, liquid, share, "two-phase", result.K)
 
     def bubble_point(self, flows: np.ndarray, P: float, T_guess: float = 298.15) -> float | None:
-        """Bubble temperature (K) at P (Pa); None where none lies in [10 K, 6000 K]."""
-        return self._saturation(flows, P, T_guess, 0.0)
+        """Bubble temperature (K) at P (Pa); None where there is none (:meth:`saturation`)."""
+        return self.saturation(flows, P, 0.0, T_guess).T
 
     def dew_point(self, flows: np.ndarray, P: float, T_guess: float = 298.15) -> float | None:
-        """Dew temperature (K) at P (Pa); None where none lies in [10 K, 6000 K]."""
-        return self._saturation(flows, P, T_guess, 1.0)
+        """Dew temperature (K) at P (Pa); None where there is none (:meth:`saturation`)."""
+        return self.saturation(flows, P, 1.0, T_guess).T
 
-    def _saturation(self, flows: np.ndarray, P: float, T_guess: float, V: float) -> float | None:
+    def saturation(
+        self, flows: np.ndarray, P: float, vapor_fraction: float, T_guess: float = 298.15
+    ) -> SaturationPoint:
+        """Bubble (vapor fraction 0) or dew (1) point at P (Pa), or why there is none.
+
+        None lies outside [10 K, 6000 K]; and a temperature at or above the critical
+        temperature of every component present is not a saturation point: no component
+        can be liquid there. (The ideal method would otherwise give one from vapor
+        pressures continued past the critical point, or from Henry constants.)
+        """
         flows = np.asarray(flows, dtype=float)
         if not flows.sum() > 0.0:
-            return None
+            return SaturationPoint(None, "no flow")
         try:
-            return self.flash_PV(flows, P, V, T_guess).T
+            T = self.flash_PV(flows, P, vapor_fraction, T_guess).T
         except InputError:
-            return None
+            return SaturationPoint(None, self.no_saturation_reason)
+        present = np.flatnonzero(flows > 0.0)
+        critical = np.asarray(self.basis.Tc)[present]
+        if T >= critical.max():
+            heaviest = self.basis.names[present[int(np.argmax(critical))]]
+            return SaturationPoint(None, f"above the critical temperature of {heaviest}")
+        return SaturationPoint(T)
 
 
 class IdealEquilibrium(EquilibriumSearch):

@@ -10,7 +10,10 @@ search any temperature.
 A component above its critical temperature has no vapor pressure; Henry's law takes its
 place, with the Henry constant of the component in water from Sander's compilation
 (Sander 2015, Atmos. Chem. Phys. 15, 4399), shipped by ``thermo`` as the "Sander T dep"
-table, ``ln(H / Pa) = A + B / T``. Water is the one solvent of that table: for another
+table of its interaction-parameter database (``thermo.interaction_parameters.IPDB``,
+file ``Interaction Parameters/Sander_henry_T_dep.json``), evaluated as
+``chemicals.solubility.Henry_pressure``: ``ln(H / Pa) = A + B / T`` (only the rows
+without further temperature terms are taken). Water is the one solvent of that table: for another
 solvent it is an estimate (the cautions say so).
 """
 
@@ -31,8 +34,9 @@ ANTOINE_SOURCE = (
     "{T_min:g}-{T_max:g} K"
 )
 HENRY_SOURCE = (
-    "thermo 'Sander T dep' table (Sander 2015, Atmos. Chem. Phys. 15, 4399), "
-    "in water, ln(H/Pa) = A + B/T"
+    "thermo {version} IPDB 'Sander T dep' table (thermo data file Interaction "
+    "Parameters/Sander_henry_T_dep.json; Sander 2015, Atmos. Chem. Phys. 15, 4399), "
+    "solute in water, ln(H/Pa) = A + B/T (chemicals.solubility.Henry_pressure)"
 )
 
 
@@ -103,7 +107,7 @@ def vapor_pressure_data(name: str, cas: str, Tc: float) -> VaporPressureData:
         ANTOINE_SOURCE.format(T_min=T_min, T_max=T_max),
         None if henry is None else henry[0],
         None if henry is None else henry[1],
-        "" if henry is None else HENRY_SOURCE,
+        "" if henry is None else _henry_source(),
     )
 
 
@@ -115,6 +119,13 @@ def _antoine_table() -> dict[str, tuple[float, float, float, float, float]]:
         cas: (float(row.A), float(row.B), float(row.C), float(row.Tmin), float(row.Tmax))
         for cas, row in zip(table.index, table.itertuples(), strict=True)
     }
+
+
+@functools.cache
+def _henry_source() -> str:
+    import thermo
+
+    return HENRY_SOURCE.format(version=thermo.__version__)
 
 
 @functools.cache

@@ -7,9 +7,9 @@ CAUTIONS: list[str] = [
     "The property basis is ideal: flash drums compute phase equilibrium by Raoult's law "
     "(Antoine vapor pressures) and, above a component's critical temperature, Henry's law "
     "with Henry constants measured in water (or by Peng-Robinson where the case chooses "
-    "it), and so do heater and exchanger outlets whose phase is 'equilibrium'; every "
-    "other block's "
-    "outlet phase is as specified; no heat of mixing, no pressure effect on enthalpy.",
+    "it), and so do heater, exchanger, mixer, reactor and separator outlets whose phase "
+    "is 'equilibrium'; every other outlet's phase is as specified; no heat of mixing, no "
+    "pressure effect on enthalpy.",
     "Designs must follow local codes and licensed engineering practice.",
 ]
 

@@ -15,8 +15,9 @@ from typing import Any
 PROPERTY_BASIS = (
     "Ideal: enthalpy on the formation basis (elements at 298.15 K = 0), ideal-gas heat "
     "capacities, liquids by the heat of vaporization (Watson's correlation); ideal "
-    "mixtures; no phase equilibrium (each stream's phase is as specified); pressure does "
-    "not change enthalpy."
+    "mixtures; phase equilibrium only in flash drums and outlets whose phase is "
+    "'equilibrium', by the case's property method (every other outlet's phase is as "
+    "specified); pressure does not change enthalpy."
 )
 
 
@@ -51,6 +52,7 @@ def summary_rows(
         ("Exported", exported_at(when)),
         ("Unit system", case.unit_system),
         ("Property basis", PROPERTY_BASIS),
+        ("Property method", flowsheet.property_method),
         ("Components", components or "(none)"),
     ]
     if solution is None:

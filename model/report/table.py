@@ -46,7 +46,8 @@ class TableRow:
     unit
         Display unit of the values (``""`` for text and plain fractions).
     values
-        One internal-unit value (or text) per stream column.
+        One internal-unit value (or text) per stream column; a row of numbers may hold
+        text where a stream has no number (a dew point above the critical temperature).
     """
 
     label: str
@@ -55,12 +56,19 @@ class TableRow:
     values: tuple[Any, ...]
 
     def shown(self) -> tuple[Any, ...]:
-        """The values in :attr:`unit` (text as it is), round-off below the row's floor as 0."""
+        """The values in :attr:`unit` (text as it is, also a text cell in a row of
+        numbers, e.g. why a stream has no dew point), round-off below the floor as 0."""
         if not self.kind:
             return tuple(str(value) for value in self.values)
-        converted = [from_internal(value, self.kind, self.unit_or_one) for value in self.values]
+        converted = [
+            value if isinstance(value, str) else from_internal(value, self.kind, self.unit_or_one)
+            for value in self.values
+        ]
         floor = round_off_floor(converted)
-        return tuple(0.0 if abs(value) < floor else float(value) for value in converted)
+        return tuple(
+            value if isinstance(value, str) else 0.0 if abs(value) < floor else float(value)
+            for value in converted
+        )
 
     def cells(self) -> list[str]:
         """The values as display text in :attr:`unit` (5 significant digits)."""
@@ -166,10 +174,11 @@ def _has_flash_drum(solution: Any) -> bool:
     return any("vapor fraction" in result.values for result in blocks.values())
 
 
-def saturation_points(solution: Any, states: list[Any]) -> dict[str, list[float]] | None:
-    """``{"Bubble point": [K ...], "Dew point": [K ...]}`` of ``states`` at their
-    pressures for a case with a flash drum (NaN where none lies in 10-6000 K); None for
-    a case without one, or when the property method lacks data."""
+def saturation_points(solution: Any, states: list[Any]) -> dict[str, list[Any]] | None:
+    """``{"Bubble point": [point ...], "Dew point": [point ...]}`` of ``states`` at their
+    pressures for a case with a flash drum, each a
+    :class:`~model.properties.phase_equilibrium.SaturationPoint` (T in K, or None with
+    the reason); None for a case without one, or when the property method lacks data."""
     if not _has_flash_drum(solution):
         return None
     return _saturation_points(solution.basis, states)
@@ -179,12 +188,27 @@ def _saturation_rows(system: Any, basis: Any, states: list[Any]) -> list[TableRo
     points = _saturation_points(basis, states)
     if points is None:
         return []
-    return [_row(system, label, "temperature", values) for label, values in points.items()]
+    return [
+        TableRow(
+            label,
+            "temperature",
+            display_unit(system, "temperature"),
+            tuple(_point_cell(point) for point in values),
+        )
+        for label, values in points.items()
+    ]
 
 
-def _saturation_points(basis: Any, states: list[Any]) -> dict[str, list[float]] | None:
-    """Bubble and dew point of each stream at its pressure (NaN where there is none in
-    10-6000 K); None when the property method lacks data."""
+def _point_cell(point: Any) -> float | str:
+    """A saturation point's cell: its T (K), the reason it has none, or NaN (no flow)."""
+    if point.T is not None:
+        return float(point.T)
+    return math.nan if point.reason == "no flow" else point.reason
+
+
+def _saturation_points(basis: Any, states: list[Any]) -> dict[str, list[Any]] | None:
+    """Bubble and dew point of each stream at its pressure (SaturationPoint: T or the
+    reason there is none); None when the property method lacks data."""
     from model.errors import InputError
     from model.properties.property_method import equilibrium_for
 
@@ -192,14 +216,12 @@ def _saturation_points(basis: Any, states: list[Any]) -> dict[str, list[float]] 
         equilibrium = equilibrium_for(basis)
     except InputError:
         return None
-    points: dict[str, list[float]] = {"Bubble point": [], "Dew point": []}
+    points: dict[str, list[Any]] = {"Bubble point": [], "Dew point": []}
     for state in states:
-        for label, find in (
-            ("Bubble point", equilibrium.bubble_point),
-            ("Dew point", equilibrium.dew_point),
-        ):
-            value = find(state.flows, state.P, state.T) if state.total_molar_flow() > 0 else None
-            points[label].append(math.nan if value is None else value)
+        for label, vapor_fraction in (("Bubble point", 0.0), ("Dew point", 1.0)):
+            points[label].append(
+                equilibrium.saturation(state.flows, state.P, vapor_fraction, state.T)
+            )
     return points
 
 

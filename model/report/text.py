@@ -126,11 +126,33 @@ def solution_report(
     if duties:
         sections.append(["Blocks:", *(f"  {line}" for line in duties)])
     sections.append(["Balance closures:", *(f"  {line}" for line in closure_lines(solution))])
+    method = getattr(getattr(solution, "basis", None), "property_method", None)
+    if method is not None:
+        lines = property_data_lines(solution.basis)
+        sections.append([f"Property method: {method}", *(f"  {line}" for line in lines)])
     if solution.issues:
         sections.append(
             ["Log:", *(f"  {issue.severity}: {issue.message}" for issue in solution.issues)]
         )
     return "\n\n".join("\n".join(section) for section in sections) + "\n"
+
+
+def property_data_lines(basis: Any) -> list[str]:
+    """The constants the property method of ``basis`` uses, one line each with its source."""
+    from model.properties.property_data import describe
+    from model.properties.property_method import property_data_of
+
+    return describe(property_data_of(basis), basis.names, basis.property_method)
+
+
+def property_data_summary(basis: Any) -> dict[str, Any] | None:
+    """``{"method": ..., **constants}``: the ``--json`` entry of the property method."""
+    if basis is None:
+        return None
+    from model.properties.property_method import property_data_of
+
+    data = property_data_of(basis).to_json(basis.names, basis.property_method)
+    return {"method": basis.property_method, **data}
 
 
 def solution_summary(solution: Any) -> dict[str, Any]:
@@ -142,11 +164,14 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     ``tears`` (tear -> scaled residual per iteration), ``streams`` (name -> ``molar_flows_mol_s``,
     ``T_K``, ``P_Pa``, ``phase``, ``vapor_fraction``, for two phases
     ``vapor_flows_mol_s`` and ``liquid_flows_mol_s``, ``enthalpy_flow_W``, in a case with a
-    flash drum ``bubble_point_K`` and ``dew_point_K``, null where none), ``blocks``
-    (name -> ``duty_W`` where the block has one; an exchanger's ``heat_curve``:
-    ``heat_passed_W`` from the hot inlet end, ``hot_T_K``, ``cold_T_K``), ``closure``
-    (relative closures ``mass``, ``elements``, ``energy``), ``cautions`` and, when the
-    case has targets, ``targets`` (:func:`model.report.target_lines.targets_summary`).
+    flash drum ``bubble_point_K`` and ``dew_point_K``, null where none, with
+    ``bubble_point_note``/``dew_point_note`` saying why, e.g. "above the critical
+    temperature of ammonia"), ``blocks`` (name -> ``duty_W`` where the block has one;
+    an exchanger's ``heat_curve``: ``heat_passed_W`` from the hot inlet end,
+    ``hot_T_K``, ``cold_T_K``), ``closure`` (relative closures ``mass``, ``elements``,
+    ``energy``), ``property_data`` (the property method and the constants it used, with
+    their sources, as in the case file), ``cautions`` and, when the case has targets,
+    ``targets`` (:func:`model.report.target_lines.targets_summary`).
     """
     result = solution.convergence
     components = list(solution.component_names)
@@ -165,9 +190,11 @@ def solution_summary(solution: Any) -> dict[str, Any]:
     points = saturation_points(solution, list(solution.streams.values()))
     if points is not None:  # a case with a flash drum: each stream's bubble and dew point
         for index, entry in enumerate(streams.values()):
-            for label, key in (("Bubble point", "bubble_point_K"), ("Dew point", "dew_point_K")):
-                value = points[label][index]
-                entry[key] = None if value != value else float(value)
+            for label, key in (("Bubble point", "bubble_point"), ("Dew point", "dew_point")):
+                point = points[label][index]
+                entry[f"{key}_K"] = None if point.T is None else float(point.T)
+                if point.T is None:
+                    entry[f"{key}_note"] = point.reason
     balance = solution.balance
     targets = targets_summary(solution)
     return {
@@ -208,6 +235,7 @@ def solution_summary(solution: Any) -> dict[str, Any]:
             "elements": float(balance.element_closure),
             "energy": float(balance.energy_closure),
         },
+        "property_data": property_data_summary(getattr(solution, "basis", None)),
         "cautions": list(CAUTIONS),
         **({} if targets is None else {"targets": targets}),
     }

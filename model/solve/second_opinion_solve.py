@@ -165,9 +165,9 @@ def second_opinion(
     if errors:
         message = f"needs input: {len(errors)} problem(s); first: {errors[0].message}"
         return SecondOpinion(False, message, "", 0)
-    from model.properties.enthalpy import PropertyBasis
+    from model.properties.property_method import case_basis
 
-    basis = PropertyBasis(flowsheet.components, flowsheet.property_method)
+    basis = case_basis(flowsheet)
     compiled = compile_flowsheet(flowsheet, basis)
     named_phases = stream_phases(flowsheet, PortMap(flowsheet))
     known_phases = {compiled.stream_index[n]: p for n, p in named_phases.items()}

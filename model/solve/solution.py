@@ -114,11 +114,12 @@ class FlowsheetSolution:
         :class:`~model.properties.enthalpy.PropertyBasis`, or a flowsheet whose components
         make one."""
         from model.properties.enthalpy import PropertyBasis
+        from model.properties.property_method import case_basis
         from model.solve.balance import BalanceReport
 
         basis = source
         if source is not None and not isinstance(source, PropertyBasis):
-            basis = PropertyBasis(source.components) if source.components else None
+            basis = case_basis(source) if source.components else None
         convergence = data.get("convergence")
         balance = data.get("balance")
         tear_streams = [str(n) for n in data.get("tear_streams", [])]

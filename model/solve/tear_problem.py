@@ -45,6 +45,7 @@ from convergence import FixedPointProblem, FixedPointResult, SolverSettings
 from model.errors import CalculationError, InputError
 from model.flowsheet.document import Flowsheet
 from model.properties.enthalpy import PropertyBasis
+from model.properties.property_method import case_basis
 from model.properties.stream_state import StreamState
 from model.solve.balance import balance_report
 from model.solve.compile import CompiledFlowsheet, compile_flowsheet
@@ -290,7 +291,7 @@ def prepare_tear_problem(flowsheet: Flowsheet, issues: list[Issue]) -> TearProbl
     problem's :attr:`~TearProblem.problem` is None until
     :meth:`~TearProblem.make_start`.
     """
-    basis = PropertyBasis(flowsheet.components, flowsheet.property_method)
+    basis = case_basis(flowsheet)
     compiled = compile_flowsheet(flowsheet, basis)
     topology = _topology(flowsheet, basis)
     for name in topology.unused_preferred_tears:

@@ -360,11 +360,11 @@ def flash_drum_issues(flowsheet: Flowsheet, block: Block) -> list[Issue]:
     method = flowsheet.property_method
     instead = (
         "choose a named outlet phase instead"
-        if block.kind in ("Heater", "Exchanger")
+        if block.kind != "Flash drum"
         else "use a separator with a stated split instead"
     )
     for component in flowsheet.components:
-        lacking = missing_data(method, component)
+        lacking = missing_data(method, component, getattr(flowsheet, "property_data", None))
         if lacking is not None:
             what = "vapor-pressure data" if method == "ideal" else "an acentric factor"
             issues.append(

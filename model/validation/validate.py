@@ -74,7 +74,8 @@ def validate_flowsheet(flowsheet: Flowsheet) -> list[Issue]:
         elif block.kind == "Feed":
             issues += feed_issues(block)
         elif block.kind == "Flash drum" or EQUILIBRIUM in (
-            block.specs.get(name) for name in ("phase", "hot_phase", "cold_phase")
+            block.specs.get(name)
+            for name in ("phase", "hot_phase", "cold_phase", "phase1", "phase2")
         ):
             issues += flash_drum_issues(flowsheet, block)
     issues += mixer_phase_issues(flowsheet, ports)

@@ -43,3 +43,27 @@ def test_flash_drum_from_shelf_to_stream_table(qtbot, window, example_path, drop
     drop(window.view, "Flash drum", QPointF(300, 300))
     assert "Flash drum 1" in window.case.flowsheet.blocks
     window.grab().save("/tmp/flash_drum_window.png")
+
+
+def test_components_pane_shows_the_case_recorded_kij_under_peng_robinson(
+    qtbot, window, example_path
+):
+    from thermo.interaction_parameters import IPDB
+
+    assert window.files.open_path(str(example_path("ammonia_synthesis_loop")))
+    window.details.show_components()
+    page = window.details.components_page
+    page.property_method_box.setCurrentText("Peng-Robinson")
+    assert window.case.flowsheet.property_method == "Peng-Robinson"
+    names = [c.name for c in window.case.flowsheet.components]
+    page.component_list.setCurrentRow(names.index("nitrogen"))
+    rows = {label: (value, source) for label, value, source in page.shown_rows}
+    # thermo's ChemSep PR table: nitrogen-ammonia 0.2193, hydrogen-nitrogen 0.0711
+    cas = {c.name: c.cas for c in window.case.flowsheet.components}
+    for other in ("ammonia", "hydrogen"):
+        kij = IPDB.get_ip_asymmetric_matrix("ChemSep PR", [cas["nitrogen"], cas[other]], "kij")
+        value, source = rows[f"kij with {other}"]
+        assert float(value) == pytest.approx(kij[0][1], rel=1e-12)
+        assert "ChemSep PR" in source
+    assert "Acentric factor (Peng-Robinson)" in rows
+    window.grab().save("/tmp/peng_robinson_components.png")

@@ -132,7 +132,7 @@ def test_file_starts_with_format_name_and_integer_version() -> None:
     data = case_to_dict(every_spec_kind_case())
     assert list(data)[:2] == ["format", "version"]
     assert data["format"] == CASE_FORMAT == "loopwright-case"
-    assert data["version"] == CASE_VERSION == 2 and isinstance(data["version"], int)
+    assert data["version"] == CASE_VERSION == 3 and isinstance(data["version"], int)
 
 
 def test_save_then_load_gives_back_specs_units_layout_and_settings(tmp_path: Path) -> None:
@@ -361,7 +361,7 @@ def test_unreadable_block_does_not_also_fail_its_streams(ammonia_data: dict) -> 
         (b"[1, 2]", "(top level)", "one JSON object"),
         (b'{"format": "other-tool", "version": 1}', "format", "loopwright-case"),
         (b'{"format": "loopwright-case", "version": "1"}', "version", "whole number"),
-        (b'{"format": "loopwright-case", "version": -1}', "version", "from 0 to 2"),
+        (b'{"format": "loopwright-case", "version": -1}', "version", "from 0 to 3"),
         (
             b'{"format": "loopwright-case", "version": 1, "version": 1, "components": [],'
             b' "blocks": [], "streams": []}',

@@ -41,7 +41,7 @@ def test_targets_are_saved_and_read_back(tmp_path: Path):
     path = tmp_path / "with targets.loop.json"
     save_case(case, path)
     data = json.loads(path.read_text("utf-8"))
-    assert data["version"] == CASE_VERSION == 2
+    assert data["version"] == CASE_VERSION == 3
     assert data["targets"][0]["adjusted"] == "Purge splitter.fractions[out2]"
     assert load_case(path).flowsheet.targets == [_argon_target(), cooler]
 
@@ -52,7 +52,7 @@ def test_a_version_1_file_opens_with_no_targets_and_saves_as_version_2(tmp_path:
     data.pop("targets", None)
     case = case_from_dict(data)
     assert case.flowsheet.targets == []
-    assert json.loads(case_to_json(case))["version"] == 2
+    assert json.loads(case_to_json(case))["version"] == 3
 
 
 def test_a_version_1_file_with_a_targets_key_keeps_it():
