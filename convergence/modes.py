@@ -1,0 +1,192 @@
+"""Dominant-mode step: remove a coupled tear's leading modes where per-variable q cannot.
+
+Wegstein's q = s/(s - 1) per variable (Wegstein 1958) is exact for a tear whose
+variables each follow a slope of their own. In a coupled tear (a reversible reaction
+recycling both isomers, a purge flow set elsewhere) g's Jacobian has modes that mix the
+variables: the per-variable secant quotients change from step to step and the q made
+from them removes one mode at a time.
+
+The dominant eigenvalue method (Orbach & Crowe, Can. J. Chem. Eng. 49, 509, 1971)
+estimates the leading eigenvalue lambda from successive differences and extrapolates
+along its mode, x + (g(x) - x)/(1 - lambda); its generalisation to the two leading
+eigenvalues (Crowe & Nishio, AIChE J. 21, 528, 1975) fits them from the last
+differences. This step does the latter from the last two difference pairs of a tear
+(in its scaled variables): with X = [dx_(k-1), dx_k] and G = [dg_(k-1), dg_k], the map
+restricted to span(X) is modelled as g(x + X c) = g(x) + G c, c is chosen to make the
+modelled residual g(x) - x + (G - X) c smallest (least squares), and the next iterate
+is g(x) + G c. Outside span(X) the step is direct substitution.
+
+When a tear's step is combined with bounded Wegstein (a rule of our own, measured on
+tests/benchmarks/recycle_cases.py); otherwise the tear keeps Wegstein's step:
+
+- the tear's residual did not fall below :data:`PROGRESS` times the last one (Wegstein
+  is not doing well), and
+- its two last steps are parallel, all its moving variables have the mode's slope (a
+  tear with one moving variable) and that slope is negative: the one-mode step
+  x + (g(x) - x)/(1 - lambda) with lambda = <dg, dx>/<dx, dx>, the dominant
+  eigenvalue method's step (Wegstein's q = lambda/(lambda - 1) unbounded, a damping q
+  between 0 and 1: a point between x and g(x), never an extrapolation; a positive
+  slope is left to Wegstein and its adaptive bounds, which guard q below q_min and
+  above 1), or
+- its steps are not parallel and, at this and at the last such iteration, Wegstein's
+  per-variable slopes of the latest step mispredict the previous step's g change by
+  more than :data:`MISFIT` (the variables are coupled; a decoupled tear, whose slopes
+  hold, keeps Wegstein's step exactly): the two-mode step.
+
+A step whose modelled eigenvalues come within :data:`CLOSEST_TO_ONE` of 1 (a gain
+above 1/:data:`CLOSEST_TO_ONE`) is not taken.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from convergence.points import Evaluated
+from convergence.problem import TearLayout
+
+#: Relative misprediction of the previous step's g change by the latest per-variable
+#: slopes above which the tear counts as coupled (a rule of our own, the same 20 % as
+#: the steadiness test of :mod:`convergence.adaptive`).
+MISFIT = 0.2
+#: Two scaled steps whose cosine exceeds this are one mode.
+PARALLEL = 0.999
+#: Along one mode, per-variable slopes this close to the mode's eigenvalue (relative
+#: to 1 - lambda, the quantity the step divides by) cannot tell a coupled tear from a
+#: decoupled one; the tear then takes the dominant eigenvalue step.
+UNIFORM = 1e-6
+#: A tear whose largest scaled residual fell below this fraction of the last one keeps
+#: Wegstein's step: it is working (a rule of our own, measured on
+#: tests/benchmarks/recycle_cases.py: the inert-and-purge loop, decoupled after a
+#: nonlinear start, loses two passes to a mode step taken while Wegstein converges).
+PROGRESS = 0.2
+#: Modelled eigenvalues must stay this far from 1 (gain 1/(1 - lambda) at most 200,
+#: the widest adaptive q bound's, :data:`convergence.adaptive.Q_MIN_LIMIT`).
+CLOSEST_TO_ONE = 1.0 / 201.0
+
+
+def _misfit(a_previous, b_previous, slopes) -> float:
+    """How badly the per-variable slopes predict the previous g change."""
+    size = float(np.linalg.norm(b_previous))
+    if size == 0.0:
+        return 0.0
+    return float(np.linalg.norm(slopes * a_previous - b_previous)) / size
+
+
+def _eigenvalues_allowed(eigenvalues: np.ndarray) -> bool:
+    real = np.real(eigenvalues)
+    return bool(np.all(np.isfinite(eigenvalues)) and np.all(np.abs(1.0 - real) >= CLOSEST_TO_ONE))
+
+
+def _cosine(first: np.ndarray, second: np.ndarray) -> float:
+    size = float(np.sqrt(np.dot(first, first) * np.dot(second, second)))
+    return abs(float(np.dot(first, second))) / size if size > 0.0 else 1.0
+
+
+def _one_mode(f: np.ndarray, step: np.ndarray, change: np.ndarray) -> np.ndarray | None:
+    """Dominant eigenvalue step: x + f/(1 - lambda) along ``step``, direct elsewhere.
+
+    The model g(x + step c) = g(x) + change c, c minimising the modelled residual;
+    returns the scaled displacement from x.
+    """
+    size = float(np.dot(step, step))
+    eigenvalue = float(np.dot(change, step)) / size
+    if not _eigenvalues_allowed(np.array([eigenvalue])):
+        return None
+    difference = change - step
+    weight = -float(np.dot(difference, f)) / float(np.dot(difference, difference))
+    return f + change * weight
+
+
+def _two_modes(f: np.ndarray, steps: np.ndarray, changes: np.ndarray) -> np.ndarray | None:
+    """The generalised step on the span of both steps, direct substitution elsewhere.
+
+    g(x + X c) = g(x) + G c, c minimising the modelled residual f + (G - X) c; the
+    next iterate g(x) + G c. Returns the scaled displacement from x.
+    """
+    projected, *_ = np.linalg.lstsq(steps, changes, rcond=None)
+    if not _eigenvalues_allowed(np.linalg.eigvals(projected)):
+        return None
+    weights, *_ = np.linalg.lstsq(changes - steps, -f, rcond=None)
+    return f + changes @ weights
+
+
+class DominantModes:
+    """Remembers each tear's previous difference pair and makes the dominant-mode step.
+
+    Parameters
+    ----------
+    layout
+        The checked problem (tear slices).
+    """
+
+    def __init__(self, layout: TearLayout) -> None:
+        self.layout = layout
+        self.previous: tuple[np.ndarray, np.ndarray] | None = None
+        self.residuals: dict[str, float] = {}
+        self.coupled: dict[int, bool] = {}
+
+    def improve(
+        self, point: Evaluated, x_new: np.ndarray, allowed: bool
+    ) -> tuple[np.ndarray, list[str]]:
+        """``x_new`` with the coupled tears' parts replaced by the dominant-mode step.
+
+        Returns the new iterate and the tears that took the step (none unless
+        ``allowed``). Remembers this point's difference pair and residuals for the next
+        call, so that direct-substitution steps teach it too.
+        """
+        previous, self.previous = self.previous, None
+        last_residuals, self.residuals = (
+            self.residuals,
+            {
+                tear: float(np.max(np.abs(point.fx[part]) / point.scale[part]))
+                for tear, part in self.layout.tear_slices.items()
+            },
+        )
+        if point.step is None:
+            return x_new, []
+        self.previous = (point.step, point.g_step)
+        if previous is None or not allowed:
+            return x_new, []
+        scale = point.scale
+        improved, moved = x_new, []
+        for tear, part in self.layout.tear_slices.items():
+            last = last_residuals.get(tear, np.inf)
+            if self.residuals[tear] < PROGRESS * last:
+                continue
+            displacement = self._tear_step(point, previous, part)
+            if displacement is None or not np.all(np.isfinite(displacement)):
+                continue
+            if not moved:
+                improved = x_new.copy()
+            improved[part] = point.x[part] + displacement * scale[part]
+            moved.append(tear)
+        return improved, moved
+
+    def _tear_step(
+        self, point: Evaluated, previous: tuple[np.ndarray, np.ndarray], part: slice
+    ) -> np.ndarray | None:
+        """The scaled displacement of one tear's dominant-mode step, or None (Wegstein)."""
+        scale = point.scale[part]
+        a_previous, a_latest = previous[0][part] / scale, point.step[part] / scale
+        b_previous, b_latest = previous[1][part] / scale, point.g_step[part] / scale
+        usable = point.usable[part]
+        if not usable.any():
+            return None
+        f = point.fx[part] / scale
+        slopes = np.zeros_like(a_latest)
+        np.divide(b_latest, a_latest, out=slopes, where=usable)
+        if _cosine(a_previous, a_latest) > PARALLEL:
+            eigenvalue = float(np.dot(b_latest, a_latest)) / float(np.dot(a_latest, a_latest))
+            weights = a_latest[usable] ** 2
+            spread = float(np.sqrt(np.average((slopes[usable] - eigenvalue) ** 2, weights=weights)))
+            if spread > UNIFORM * abs(1.0 - eigenvalue) or eigenvalue >= 0.0:
+                return None
+            return _one_mode(f, a_latest, b_latest)
+        coupled = _misfit(a_previous, b_previous, slopes) > MISFIT
+        was_coupled = self.coupled.get(part.start, False)
+        self.coupled[part.start] = coupled
+        if not (coupled and was_coupled):
+            return None
+        steps = np.column_stack((a_previous, a_latest))
+        changes = np.column_stack((b_previous, b_latest))
+        return _two_modes(f, steps, changes)
