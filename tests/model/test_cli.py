@@ -11,7 +11,7 @@ from pathlib import Path
 import pytest
 
 from model.case.file import load_case
-from model.cli import main
+from model.cli import _prepared_case, build_parser, main
 from model.report.cautions import CAUTIONS
 from units_of_measure import from_internal
 
@@ -272,3 +272,14 @@ def test_solve_json_of_a_case_with_a_flash_drum_shows_vapor_fractions(capsys) ->
     # the drum's liquid leaves at its bubble point, its gas at its dew point (-10 degC)
     assert streams["Ammonia"]["bubble_point_K"] == pytest.approx(263.15, rel=1e-9)
     assert streams["Loop gas"]["dew_point_K"] == pytest.approx(263.15, rel=1e-9)
+
+
+def test_no_dominant_mode_switches_the_mode_step_off(capsys) -> None:
+    parser = build_parser()
+    plain = _prepared_case(parser.parse_args(["solve", str(AMMONIA)]))
+    off = _prepared_case(parser.parse_args(["solve", str(AMMONIA), "--no-dominant-mode"]))
+    assert plain.settings.dominant_mode is True and off.settings.dominant_mode is False
+    _, out, _ = _run(capsys, "solve", "--help")
+    assert "--no-dominant-mode" in out
+    _, out, _ = _run(capsys, "solve", str(AMMONIA), "--json", "--no-dominant-mode")
+    assert json.loads(out)["converged"]
