@@ -71,8 +71,8 @@ class SettingsSnapshot:
         :mod:`convergence.coupling`).
     dominant_mode
         In a Wegstein run, a tear whose per-variable slopes of the latest step do not
-        explain the step before (its variables are coupled) takes a step on its two
-        leading modes, fitted from its last two difference pairs, instead of
+        explain the step before (its variables are coupled) takes a step on its
+        leading modes, fitted from its last three difference pairs, instead of
         Wegstein's per-variable step (the dominant eigenvalue method generalised,
         Crowe & Nishio 1975; see :mod:`convergence.modes`). Recorded as a
         ``"dominant mode"`` step in the history. Taken only where the run may adapt

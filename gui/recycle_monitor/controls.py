@@ -41,8 +41,8 @@ CONTROLS: tuple[tuple[str, str, Callable[[str], Any], str], ...] = (
 
 
 DOMINANT_MODE_TIP = (
-    "On a tear whose variables are coupled, step on its two leading modes (fitted from "
-    "the last two steps) instead of Wegstein's per-variable q; shown as 'dominant mode' "
+    "On a tear whose variables are coupled, step on its leading modes (fitted from "
+    "the last three steps) instead of Wegstein's per-variable q; shown as 'dominant mode' "
     "steps in the history."
 )
 
