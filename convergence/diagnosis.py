@@ -19,6 +19,8 @@ from convergence.history import ConvergenceHistory
 from convergence.settings import SettingsSnapshot, SolverSettings
 
 SLOPE_WINDOW = 5
+#: How the advice names a run's method when its steps do not use q bounds.
+_METHOD_NAMES = {"direct": "direct substitution", "broyden": "quasi-Newton (Broyden)"}
 RESIDUAL_WINDOW = 6
 BOUND_MARGIN = 0.25
 
@@ -102,7 +104,7 @@ def _rate(history: ConvergenceHistory, tear: str, slope: float) -> float:
         if record.step == "accelerated":
             q = record.q[tear].median
             return q + (1.0 - q) * slope
-        if record.step == "quasi-Newton":
+        if record.step in ("quasi-Newton", "dominant mode"):
             return math.nan
     return slope
 
@@ -161,6 +163,7 @@ def _advice(
     bounds: tuple[float, float],
     settings: SettingsSnapshot,
     in_force: tuple[float, float],
+    method: str = "wegstein",
 ) -> str:
     if not math.isfinite(slope):
         return "unknown: too few iterations (or steps too small) to estimate a slope"
@@ -168,6 +171,8 @@ def _advice(
     head = f"{state}, slope {slope:.2f}"
     if abs(slope) >= 1.0:
         head += " (direct substitution diverges)"
+    if method in _METHOD_NAMES:
+        return f"{head}; this {_METHOD_NAMES[method]} run does not use Wegstein's q bounds"
     if not math.isfinite(q):
         return f"{head}: no finite q helps; the loop does not damp itself (is there a purge?)"
     low, high = in_force
@@ -191,7 +196,7 @@ def _advice(
 
 
 def _diagnose_one(
-    history: ConvergenceHistory, tear: str, settings: SettingsSnapshot
+    history: ConvergenceHistory, tear: str, settings: SettingsSnapshot, method: str
 ) -> TearDiagnosis:
     slope = _recent_slope(history, tear)
     ratio = _residual_ratio(history, tear)
@@ -209,8 +214,13 @@ def _diagnose_one(
         pattern = "oscillating" if slope < 0.0 else "monotonic"
         q = slope / (slope - 1.0) if slope != 1.0 else -math.inf
     in_force = bounds_in_force(history, settings)
-    blocked = bool(math.isfinite(slope) and not in_force[0] <= q <= in_force[1])
-    bounds = suggested_bounds(q, settings.q_min, settings.q_max)
+    uses_bounds = method not in _METHOD_NAMES
+    blocked = bool(uses_bounds and math.isfinite(slope) and not in_force[0] <= q <= in_force[1])
+    bounds = (
+        suggested_bounds(q, settings.q_min, settings.q_max)
+        if uses_bounds
+        else (settings.q_min, settings.q_max)
+    )
     return TearDiagnosis(
         tear=tear,
         converging=converging,
@@ -219,9 +229,12 @@ def _diagnose_one(
         suggested_q=q,
         suggested_bounds=bounds,
         blocked_by_bounds=blocked,
-        advice=_advice(pattern, converging, slope, q, bounds, settings, in_force),
+        advice=_advice(pattern, converging, slope, q, bounds, settings, in_force, method),
         widened_by_run=bool(
-            math.isfinite(slope) and not blocked and not settings.q_min <= q <= settings.q_max
+            uses_bounds
+            and math.isfinite(slope)
+            and not blocked
+            and not settings.q_min <= q <= settings.q_max
         ),
         residual_ratio=ratio,
         direct_substitution_converges=bool(math.isfinite(slope) and abs(slope) < 1.0),
@@ -233,8 +246,13 @@ def diagnose_tears(
     history: ConvergenceHistory,
     settings: SolverSettings | SettingsSnapshot | None = None,
     tears: list[str] | None = None,
+    method: str | None = None,
 ) -> dict[str, TearDiagnosis]:
     """Diagnose every tear of a run from its history.
+
+    q advice (which bound stops Wegstein's q, which bounds to try) is given for a
+    bounded Wegstein run only: a direct-substitution or quasi-Newton run uses no q
+    bounds, so its advice says so and its suggested bounds are the settings' own.
 
     Parameters
     ----------
@@ -244,6 +262,9 @@ def diagnose_tears(
         The q bounds to judge against; default: the settings of the last record.
     tears
         Tear names; default: those of the first record.
+    method
+        The run's method (a key of :data:`convergence.solver.METHODS`); default:
+        ``"broyden"`` if the history has a quasi-Newton step, else ``"wegstein"``.
 
     Returns
     -------
@@ -256,4 +277,7 @@ def diagnose_tears(
         settings = history.records[-1].settings if history.records else SettingsSnapshot()
     if tears is None:
         tears = list(history.records[0].residuals) if history.records else []
-    return {tear: _diagnose_one(history, tear, settings) for tear in tears}
+    if method is None:
+        steps = {record.step for record in history.records}
+        method = "broyden" if "quasi-Newton" in steps else "wegstein"
+    return {tear: _diagnose_one(history, tear, settings, method) for tear in tears}

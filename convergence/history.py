@@ -89,7 +89,9 @@ class IterationRecord:
         Per tear, the dominant slope of g along the last step (``None`` at the first
         iteration or when the step was too small).
     step
-        ``"direct"``, ``"accelerated"``, ``"quasi-Newton"``, ``"fallback"`` (back to the
+        ``"direct"``, ``"accelerated"``, ``"dominant mode"`` (a Wegstein step in which
+        some tear took the dominant-mode step, :mod:`convergence.modes`),
+        ``"quasi-Newton"``, ``"fallback"`` (back to the
         best point, :mod:`convergence.fallback`) or ``"none"``.
     worst_variable
         Name of the variable with the largest scaled residual.

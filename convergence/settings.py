@@ -69,6 +69,15 @@ class SettingsSnapshot:
         more than 20 % since the last step (it is driven by other variables of its
         tear) takes q from its tear's dominant slope instead (see
         :mod:`convergence.coupling`).
+    dominant_mode
+        In a Wegstein run, a tear whose per-variable slopes of the latest step do not
+        explain the step before (its variables are coupled) takes a step on its
+        leading modes, fitted from its last three difference pairs, instead of
+        Wegstein's per-variable step (the dominant eigenvalue method generalised,
+        Crowe & Nishio 1975; see :mod:`convergence.modes`). Recorded as a
+        ``"dominant mode"`` step in the history. Taken only where the run may adapt
+        its step: ``q_mode`` ``"bounded"``, ``adaptive_bounds`` on, q_min < q_max,
+        ``acceleration_interval`` 1.
     fallback, fallback_factor
         Safeguard of an accelerated run (Wegstein, Broyden): once its residual, on the
         best iterate's scale, exceeds ``fallback_factor`` times the best seen, the run
@@ -94,6 +103,7 @@ class SettingsSnapshot:
     stop_on: str = "estimated error"
     adaptive_bounds: bool = True
     dominant_slope: bool = True
+    dominant_mode: bool = True
     fallback: bool = True
     fallback_factor: float = 100.0
     divergence_factor: float = 1e4
@@ -148,7 +158,13 @@ def _checked(values: dict[str, Any]) -> dict[str, Any]:
         checked[name] = _as_int(name, values[name], minimum)
     if checked["stop_on"] not in STOP_RULES:
         raise ConvergenceInputError("stop_on", values["stop_on"], f"one of {list(STOP_RULES)}")
-    for name in ("adaptive_bounds", "dominant_slope", "fallback", "early_acceleration"):
+    for name in (
+        "adaptive_bounds",
+        "dominant_slope",
+        "dominant_mode",
+        "fallback",
+        "early_acceleration",
+    ):
         if not isinstance(checked[name], bool):
             raise ConvergenceInputError(name, values[name], "True or False")
     if checked["q_mode"] not in Q_MODES:

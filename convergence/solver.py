@@ -225,7 +225,7 @@ class _Run:
             iterations=point.iteration,
             evaluations=self.evaluations,
             history=self.history,
-            diagnosis=diagnose_tears(self.history, settings, self.layout.tears),
+            diagnosis=diagnose_tears(self.history, settings, self.layout.tears, self.method),
             method=self.method,
             largest_residual=float(largest[0]),
             largest_estimated_error=float(largest[1]),

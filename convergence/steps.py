@@ -10,6 +10,7 @@ import numpy as np
 
 from convergence.adaptive import BoundsAdapter
 from convergence.coupling import DominantSlopeQ
+from convergence.modes import DominantModes
 from convergence.points import Evaluated, Step
 from convergence.problem import TearLayout
 from convergence.settings import SettingsSnapshot
@@ -30,6 +31,23 @@ def accelerates(iteration: int, settings: SettingsSnapshot) -> bool:
     """
     after = iteration - settings.direct_steps - 1
     return after >= 0 and after % settings.acceleration_interval == 0
+
+
+def takes_mode_steps(settings: SettingsSnapshot) -> bool:
+    """Whether a Wegstein run may take dominant-mode steps (:mod:`convergence.modes`).
+
+    Only with ``dominant_mode`` on and the run free to adapt: q in ``"bounded"`` mode,
+    ``adaptive_bounds`` on, q_min < q_max and every iteration accelerated. Fixed bounds,
+    a held q, the constant-q method and an acceleration interval are the user's
+    deliberate choice of step, which a mode step would override.
+    """
+    return (
+        settings.dominant_mode
+        and settings.adaptive_bounds
+        and settings.acceleration_interval == 1
+        and settings.q_mode == "bounded"
+        and settings.q_min < settings.q_max
+    )
 
 
 def wegstein_q(slope_numerator: np.ndarray, step: np.ndarray, usable: np.ndarray) -> np.ndarray:
@@ -77,6 +95,7 @@ class BoundedWegstein:
         self.held_guarded: np.ndarray | None = None
         self.adapter = BoundsAdapter(layout.size)
         self.coupling = DominantSlopeQ(layout)
+        self.modes = DominantModes(layout)
         self.first_residual = np.inf
 
     def _early(self, point: Evaluated, settings: SettingsSnapshot) -> bool:
@@ -107,6 +126,7 @@ class BoundedWegstein:
         latest_q = self.coupling.q(point, self._latest_q(point), use_dominant)
         if not (accelerates(point.iteration, settings) or self._early(point, settings)):
             self.adapter.observe(latest_q, point.fx, point.scale)
+            self.modes.improve(point, point.gx, allowed=False)
             return Step(x_new=point.gx, kind="direct")
         if settings.q_mode == "held" and self.held_q_raw is not None:
             q_raw, guarded = self.held_q_raw, self.held_guarded
@@ -123,9 +143,10 @@ class BoundedWegstein:
             low = high = None
             q = np.clip(q_raw, settings.q_min, settings.q_max)
         x_new = point.x + (1.0 - q) * point.fx
+        x_new, moved = self.modes.improve(point, x_new, takes_mode_steps(settings))
         return Step(
             x_new=x_new,
-            kind="accelerated",
+            kind="dominant mode" if moved else "accelerated",
             q=q,
             q_raw=q_raw,
             guarded=guarded,

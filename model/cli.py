@@ -7,7 +7,8 @@ solves the flowsheet again with every stream at once (:mod:`model.solve.second_o
 prints the largest relative difference from the sequential answer (in JSON:
 ``"second_opinion": {"agrees", "largest_relative_difference", "message"}``).
 ``--stop-on`` chooses the stopping rule ("estimated error" or "residual") and
-``--fixed-bounds`` keeps q within the given bounds (no adaptive widening); see
+``--fixed-bounds`` keeps q within the given bounds (no adaptive widening) and
+``--no-dominant-mode`` takes per-variable Wegstein steps only (no dominant-mode step); see
 :class:`convergence.SolverSettings`. A case with targets is solved with them met
 (:mod:`model.solve.targets`; ``--no-targets`` leaves them aside) and the report lists
 each target's adjusted value, measured value and outer iterations (JSON: ``"targets"``).
@@ -84,6 +85,12 @@ def build_parser() -> argparse.ArgumentParser:
         action="store_true",
         dest="fixed_bounds",
         help="keep Wegstein's q within --q-min/--q-max (a run does not widen them itself)",
+    )
+    solve.add_argument(
+        "--no-dominant-mode",
+        action="store_true",
+        dest="no_dominant_mode",
+        help="per-variable Wegstein steps only: no dominant-mode step on coupled tears",
     )
     solve.add_argument("--json", action="store_true", help="print one JSON object")
     solve.add_argument(
@@ -208,6 +215,8 @@ def _prepared_case(args: argparse.Namespace) -> Case:
     }
     if getattr(args, "fixed_bounds", False):
         changes["adaptive_bounds"] = False
+    if getattr(args, "no_dominant_mode", False):
+        changes["dominant_mode"] = False
     if changes:
         case.settings.update(**changes)
     if getattr(args, "no_targets", False):

@@ -1,4 +1,5 @@
-"""Live solver controls: q bounds, acceleration interval, tolerance and iteration limit.
+"""Live solver controls: q bounds, acceleration interval, tolerance, iteration limit and
+the dominant-mode step (on or off).
 
 Each field calls ``SolverSettings.update`` as soon as the user finishes typing, also
 while a solve runs (the settings object is thread-safe and the run picks the change up
@@ -12,7 +13,14 @@ from collections.abc import Callable
 from typing import Any
 
 from PySide6.QtCore import QSignalBlocker, Signal
-from PySide6.QtWidgets import QGridLayout, QLabel, QLineEdit, QVBoxLayout, QWidget
+from PySide6.QtWidgets import (
+    QCheckBox,
+    QGridLayout,
+    QLabel,
+    QLineEdit,
+    QVBoxLayout,
+    QWidget,
+)
 
 from convergence import ConvergenceInputError, SolverSettings
 from gui.details.spec_editors import INVALID_COLOR, set_invalid_style
@@ -29,6 +37,13 @@ CONTROLS: tuple[tuple[str, str, Callable[[str], Any], str], ...] = (
     ),
     ("tolerance", "Tolerance", float, "Largest scaled residual accepted as converged."),
     ("max_iterations", "Iteration limit", int, "Largest number of flowsheet passes."),
+)
+
+
+DOMINANT_MODE_TIP = (
+    "On a tear whose variables are coupled, step on its leading modes (fitted from "
+    "the last three steps) instead of Wegstein's per-variable q; shown as 'dominant mode' "
+    "steps in the history."
 )
 
 
@@ -66,6 +81,10 @@ class LiveControls(QWidget):
             row, column = divmod(index, 2)
             grid.addWidget(caption, row, 2 * column)
             grid.addWidget(edit, row, 2 * column + 1)
+        self.dominant_mode = QCheckBox("Dominant-mode step")
+        self.dominant_mode.setToolTip(DOMINANT_MODE_TIP)
+        self.dominant_mode.toggled.connect(self._apply_dominant_mode)
+        grid.addWidget(self.dominant_mode, grid.rowCount(), 0, 1, 4)
         self.message_label = QLabel()
         self.message_label.setWordWrap(True)
         self.message_label.setStyleSheet(f"color: {INVALID_COLOR};")
@@ -94,6 +113,14 @@ class LiveControls(QWidget):
             with QSignalBlocker(edit):
                 edit.setText(_number_text(getattr(self.settings, name)))
             set_invalid_style(edit, None)
+        with QSignalBlocker(self.dominant_mode):
+            self.dominant_mode.setChecked(self.settings.dominant_mode)
+
+    def _apply_dominant_mode(self, checked: bool) -> None:
+        if self.settings is None:
+            return
+        self.settings.update(dominant_mode=checked)
+        self.settings_changed.emit(self.settings.snapshot())
 
     def apply(self, name: str) -> bool:
         """Send the field's typed value to the settings; mark it and keep it if refused."""

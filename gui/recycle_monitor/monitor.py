@@ -210,8 +210,9 @@ class RecycleMonitor(QWidget):
 
     @staticmethod
     def _run_html(result: Any) -> str:
-        """The run's message, the settings changes made during it and any fallback to
-        direct substitution (:mod:`convergence.fallback`)."""
+        """The run's message, the settings changes made during it, any fallback to
+        direct substitution (:mod:`convergence.fallback`) and the iterations that took
+        a dominant-mode step (:mod:`convergence.modes`)."""
         text = f"<p>{html.escape(result.message)}</p>"
         changes = result.history.events_of("settings changed")
         if changes:
@@ -225,6 +226,14 @@ class RecycleMonitor(QWidget):
             )
         for event in result.history.events_of("fallback"):
             text += f"<p>Fallback at iteration {event.iteration}: {html.escape(event.detail)}</p>"
+        modes = [r.iteration for r in result.history.records if r.step == "dominant mode"]
+        if modes:
+            text += (
+                "<p>Dominant-mode steps (coupled tears, instead of Wegstein's per-variable q) "
+                f"at iteration{'s' if len(modes) > 1 else ''} "
+                + ", ".join(str(iteration) for iteration in modes)
+                + "</p>"
+            )
         return text
 
     def show_history(self, result: Any) -> None:

@@ -123,3 +123,24 @@ def test_too_few_iterations_give_an_unknown_pattern():
 )
 def test_suggested_bounds(q, bounds, expected):
     assert suggested_bounds(q, *bounds) == pytest.approx(expected)
+
+
+@pytest.mark.parametrize(
+    ("method", "name"), [("broyden", "quasi-Newton (Broyden)"), ("direct", "direct substitution")]
+)
+def test_q_advice_only_after_a_wegstein_run(method, name):
+    # Slope 0.98 wants q = -49 (Wegstein 1958), below q_min = -5; a Wegstein run at
+    # fixed bounds is told so (test_monotonic_tear_blocked_by_q_min), but a Broyden or
+    # direct-substitution run uses no q bounds and must not be told to move them.
+    settings = SolverSettings(max_iterations=30)
+    result = solve_fixed_point(_linear_tears({"S2": 0.98}), method, settings)
+    diagnosis = result.diagnosis["S2"]
+    assert diagnosis.slope == pytest.approx(0.98, abs=1e-6)
+    assert "q_min" not in diagnosis.advice and "stops it" not in diagnosis.advice
+    assert f"this {name} run does not use Wegstein's q bounds" in diagnosis.advice
+    assert not diagnosis.blocked_by_bounds and not diagnosis.widened_by_run
+    assert diagnosis.suggested_bounds == (settings.q_min, settings.q_max)
+    # Without the method named, a history with quasi-Newton steps is read as Broyden's.
+    if method == "broyden":
+        again = diagnose_tears(result.history, settings)["S2"]
+        assert "stops it" not in again.advice

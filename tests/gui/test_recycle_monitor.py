@@ -193,3 +193,27 @@ def test_a_fallback_is_shown_in_the_run_text(qtbot, monitor):
     monitor.end_run(result)
     assert result.converged and result.history.events_of("fallback")
     assert "Fallback at iteration" in monitor.diagnosis_view.toPlainText()
+
+
+def test_dominant_mode_steps_are_shown_and_the_checkbox_switches_them(qtbot, monitor):
+    # The coupled isomer map of tests/convergence/test_dominant_mode.py (eigenvalues 0.9
+    # and 0.1, numpy.linalg.eigvals): the default run takes dominant-mode steps.
+    from tests.convergence.test_dominant_mode import FEED, ISOMERS
+
+    problem = FixedPointProblem(
+        g=lambda x: ISOMERS @ x + FEED, x0=np.array([0.0, 5.0]), tear_slices={"R": slice(0, 2)}
+    )
+    settings = SolverSettings()
+    monitor.bind_settings(settings)
+    box = monitor.controls.dominant_mode
+    assert box.isChecked()
+    monitor.begin_run()
+    result = solve_fixed_point(problem, "wegstein", settings, monitor.add_record)
+    monitor.end_run(result)
+    assert "Dominant-mode steps" in monitor.diagnosis_view.toPlainText()
+    with qtbot.waitSignal(monitor.controls.settings_changed):
+        box.click()
+    assert settings.dominant_mode is False and not box.isChecked()
+    off = solve_fixed_point(problem, "wegstein", settings)
+    assert "dominant mode" not in [record.step for record in off.history.records]
+    monitor.grab().save("/tmp/accel_monitor.png")

@@ -11,7 +11,7 @@ from pathlib import Path
 import pytest
 
 from model.case.file import load_case
-from model.cli import main
+from model.cli import _prepared_case, build_parser, main
 from model.report.cautions import CAUTIONS
 from units_of_measure import from_internal
 
@@ -293,3 +293,14 @@ def test_solve_json_gives_an_exchanger_its_heat_curve(capsys) -> None:
     assert curve["cold_T_K"][-1] == pytest.approx(streams["Raw gas"]["T_K"], rel=1e-12)
     hot = curve["hot_T_K"]
     assert all(a > b for a, b in zip(hot, hot[1:], strict=False))  # it cools along the way
+
+
+def test_no_dominant_mode_switches_the_mode_step_off(capsys) -> None:
+    parser = build_parser()
+    plain = _prepared_case(parser.parse_args(["solve", str(AMMONIA)]))
+    off = _prepared_case(parser.parse_args(["solve", str(AMMONIA), "--no-dominant-mode"]))
+    assert plain.settings.dominant_mode is True and off.settings.dominant_mode is False
+    _, out, _ = _run(capsys, "solve", "--help")
+    assert "--no-dominant-mode" in out
+    _, out, _ = _run(capsys, "solve", str(AMMONIA), "--json", "--no-dominant-mode")
+    assert json.loads(out)["converged"]

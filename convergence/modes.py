@@ -1,0 +1,235 @@
+"""Dominant-mode step: remove a coupled tear's leading modes where per-variable q cannot.
+
+Wegstein's q = s/(s - 1) per variable (Wegstein 1958) is exact for a tear whose
+variables each follow a slope of their own. In a coupled tear (a reversible reaction
+recycling both isomers, a purge flow set elsewhere) g's Jacobian has modes that mix the
+variables: the per-variable secant quotients change from step to step and the q made
+from them removes one mode at a time.
+
+The dominant eigenvalue method (Orbach & Crowe, Can. J. Chem. Eng. 49, 509, 1971)
+estimates the leading eigenvalue lambda from successive differences and extrapolates
+along its mode, x + (g(x) - x)/(1 - lambda); its generalisation to several leading
+eigenvalues (Crowe & Nishio, AIChE J. 21, 528, 1975) fits them from the last
+differences. This step does the latter from the last :data:`MEMORY` difference pairs
+of a tear (in its scaled variables): with X = [dx_(k-2), dx_(k-1), dx_k] and
+G = [dg_(k-2), dg_(k-1), dg_k], the map restricted to span(X) is modelled as
+g(x + X c) = g(x) + G c, c is chosen to make the modelled residual
+g(x) - x + (G - X) c smallest (least squares), and the next iterate is g(x) + G c.
+Outside span(X) the step is direct substitution.
+
+When a tear takes it instead of Wegstein's step (rules of our own, measured on
+tests/benchmarks/recycle_cases.py; otherwise the tear keeps Wegstein's step):
+
+- Its last two steps are parallel (one mode seen) and its moving variables all have
+  about the mode's slope lambda = <dg, dx>/<dx, dx> (within :data:`UNIFORM` of
+  1 - lambda; per-variable slopes then cannot tell a coupled tear from a decoupled
+  one), lambda < 1: the one-mode step x + (g(x) - x)/(1 - lambda) along the mode,
+  direct substitution across it (per-variable Wegstein would extrapolate the other
+  modes by the same factor). Once :data:`MEMORY` pairs are known, such a tear takes
+  the leading-modes step below instead: the small differences across the mode in its
+  earlier steps fit the other modes too (the reversible isomerisation, modes 0.9 and
+  0.1, then takes 5 passes instead of 7). A tear with one moving variable is Wegstein's
+  own case:
+  there only a negative slope is taken this way (a damping q = lambda/(lambda - 1)
+  between 0 and 1 without waiting for two agreeing slopes: a point between x and
+  g(x), never an extrapolation); a positive one is left to Wegstein and its adaptive
+  bounds, which guard q below q_min and above 1.
+- Its steps are not parallel, Wegstein's per-variable slopes of the latest step
+  mispredict the previous step's g change by more than :data:`MISFIT`, and the tear
+  was already known to be coupled (the same misprediction at its last non-parallel
+  iteration, or a one-mode step with several moving variables): the leading-modes
+  step. A
+  decoupled tear, whose slopes hold, keeps Wegstein's step exactly; a tear not yet
+  known to be coupled whose residual fell below :data:`PROGRESS` times the last one
+  keeps Wegstein's step, which is working. (Three pairs rather than two: the
+  fixed-purge loop, three coupled flows, took 15 passes instead of 19, before the
+  leading-modes step along one mode was added, which costs it one: 16.)
+
+A step whose modelled eigenvalues come within :data:`CLOSEST_TO_ONE` of 1 (a gain
+above 1/:data:`CLOSEST_TO_ONE`) is not taken.
+"""
+
+from __future__ import annotations
+
+from collections import deque
+
+import numpy as np
+
+from convergence.points import Evaluated
+from convergence.problem import TearLayout
+
+#: Relative misprediction of the previous step's g change by the latest per-variable
+#: slopes above which the tear counts as coupled (a rule of our own, the same 20 % as
+#: the steadiness test of :mod:`convergence.adaptive`).
+MISFIT = 0.2
+#: Two scaled steps whose cosine exceeds this are one mode.
+PARALLEL = 0.999
+#: Along one mode, per-variable slopes this close to the mode's eigenvalue (relative
+#: to 1 - lambda, the quantity the step divides by) cannot tell a coupled tear from a
+#: decoupled one; the tear then takes the one-mode step (measured on the suite: 0.3 to
+#: 1.0 give the same passes).
+UNIFORM = 0.5
+#: A tear not yet known to be coupled whose largest scaled residual fell below this
+#: fraction of the last one keeps Wegstein's step: it is working (measured on
+#: tests/benchmarks/recycle_cases.py: the inert-and-purge loop, decoupled after a
+#: nonlinear start, loses two passes to a mode step taken while Wegstein converges).
+PROGRESS = 0.2
+#: Modelled eigenvalues must stay this far from 1 (gain 1/(1 - lambda) at most 200,
+#: the widest adaptive q bound's, :data:`convergence.adaptive.Q_MIN_LIMIT`).
+CLOSEST_TO_ONE = 1.0 / 201.0
+#: Difference pairs kept (the latest included): up to this many leading modes.
+MEMORY = 3
+
+
+def _misfit(a_previous, b_previous, slopes) -> float:
+    """How badly the per-variable slopes predict the previous g change."""
+    size = float(np.linalg.norm(b_previous))
+    if size == 0.0:
+        return 0.0
+    return float(np.linalg.norm(slopes * a_previous - b_previous)) / size
+
+
+def _eigenvalues_allowed(eigenvalues: np.ndarray) -> bool:
+    real = np.real(eigenvalues)
+    return bool(np.all(np.isfinite(eigenvalues)) and np.all(np.abs(1.0 - real) >= CLOSEST_TO_ONE))
+
+
+def _cosine(first: np.ndarray, second: np.ndarray) -> float:
+    size = float(np.sqrt(np.dot(first, first) * np.dot(second, second)))
+    return abs(float(np.dot(first, second))) / size if size > 0.0 else 1.0
+
+
+def _one_mode(f: np.ndarray, step: np.ndarray, change: np.ndarray) -> np.ndarray | None:
+    """Dominant eigenvalue step: x + f/(1 - lambda) along ``step``, direct elsewhere.
+
+    The model g(x + step c) = g(x) + change c, c minimising the modelled residual;
+    returns the scaled displacement from x.
+    """
+    size = float(np.dot(step, step))
+    eigenvalue = float(np.dot(change, step)) / size
+    if not _eigenvalues_allowed(np.array([eigenvalue])):
+        return None
+    difference = change - step
+    weight = -float(np.dot(difference, f)) / float(np.dot(difference, difference))
+    return f + change * weight
+
+
+def _leading_modes(f: np.ndarray, steps: np.ndarray, changes: np.ndarray) -> np.ndarray | None:
+    """The generalised step on the span of the steps, direct substitution elsewhere.
+
+    g(x + X c) = g(x) + G c, c minimising the modelled residual f + (G - X) c; the
+    next iterate g(x) + G c. Returns the scaled displacement from x.
+    """
+    projected, *_ = np.linalg.lstsq(steps, changes, rcond=None)
+    if not _eigenvalues_allowed(np.linalg.eigvals(projected)):
+        return None
+    weights, *_ = np.linalg.lstsq(changes - steps, -f, rcond=None)
+    return f + changes @ weights
+
+
+class DominantModes:
+    """Remembers the last difference pairs and makes the dominant-mode step.
+
+    Parameters
+    ----------
+    layout
+        The checked problem (tear slices).
+    """
+
+    def __init__(self, layout: TearLayout) -> None:
+        self.layout = layout
+        self.pairs: deque[tuple[np.ndarray, np.ndarray]] = deque(maxlen=MEMORY - 1)
+        self.residuals: dict[str, float] = {}
+        self.coupled: dict[int, bool] = {}
+
+    def improve(
+        self, point: Evaluated, x_new: np.ndarray, allowed: bool
+    ) -> tuple[np.ndarray, list[str]]:
+        """``x_new`` with the coupled tears' parts replaced by the dominant-mode step.
+
+        Returns the new iterate and the tears that took the step (none unless
+        ``allowed``). Remembers this point's difference pair and residuals for the next
+        calls, so that direct-substitution steps teach it too.
+        """
+        before = list(self.pairs)
+        last_residuals, self.residuals = (
+            self.residuals,
+            {
+                tear: float(np.max(np.abs(point.fx[part]) / point.scale[part]))
+                for tear, part in self.layout.tear_slices.items()
+            },
+        )
+        if point.step is None:
+            return x_new, []
+        self.pairs.append((point.step, point.g_step))
+        if not before or not allowed:
+            return x_new, []
+        scale = point.scale
+        improved, moved = x_new, []
+        for tear, part in self.layout.tear_slices.items():
+            progressing = self.residuals[tear] < PROGRESS * last_residuals.get(tear, np.inf)
+            displacement = self._tear_step(point, before, part, progressing)
+            if displacement is None or not np.all(np.isfinite(displacement)):
+                continue
+            if not moved:
+                improved = x_new.copy()
+            improved[part] = point.x[part] + displacement * scale[part]
+            moved.append(tear)
+        return improved, moved
+
+    def _tear_step(
+        self,
+        point: Evaluated,
+        before: list[tuple[np.ndarray, np.ndarray]],
+        part: slice,
+        progressing: bool,
+    ) -> np.ndarray | None:
+        """The scaled displacement of one tear's dominant-mode step, or None (Wegstein)."""
+        scale = point.scale[part]
+        a_previous, a_latest = before[-1][0][part] / scale, point.step[part] / scale
+        b_previous, b_latest = before[-1][1][part] / scale, point.g_step[part] / scale
+        usable = point.usable[part]
+        if not usable.any():
+            return None
+        f = point.fx[part] / scale
+        slopes = np.zeros_like(a_latest)
+        np.divide(b_latest, a_latest, out=slopes, where=usable)
+        steps = np.column_stack([pair[0][part] / scale for pair in before] + [a_latest])
+        changes = np.column_stack([pair[1][part] / scale for pair in before] + [b_latest])
+        if _cosine(a_previous, a_latest) > PARALLEL:
+            one = self._along_one_mode(part, f, (a_latest, b_latest), slopes[usable])
+            if one is None or usable.sum() == 1 or steps.shape[1] < MEMORY:
+                return one
+            # Several moving variables and a full memory: the small differences across
+            # the mode in the earlier steps fit the other modes too.
+            lead = _leading_modes(f, steps, changes)
+            return one if lead is None else lead
+        was_coupled = self.coupled.get(part.start, False)
+        if progressing and not was_coupled:
+            return None
+        coupled = _misfit(a_previous, b_previous, slopes) > MISFIT
+        self.coupled[part.start] = coupled
+        if not (coupled and was_coupled):
+            return None
+        return _leading_modes(f, steps, changes)
+
+    def _along_one_mode(
+        self,
+        part: slice,
+        f: np.ndarray,
+        latest: tuple[np.ndarray, np.ndarray],
+        moving_slopes: np.ndarray,
+    ) -> np.ndarray | None:
+        """The one-mode step of a tear whose last two steps were parallel, or None."""
+        step, change = latest
+        eigenvalue = float(np.dot(change, step)) / float(np.dot(step, step))
+        if moving_slopes.size == 1:
+            # One moving variable: Wegstein's own case; only a damping q is let through.
+            allowed = eigenvalue < 0.0
+        else:
+            spread = float(np.max(np.abs(moving_slopes - eigenvalue)))
+            allowed = spread <= UNIFORM * abs(1.0 - eigenvalue) and eigenvalue < 1.0
+        if not allowed:
+            return None
+        self.coupled[part.start] = moving_slopes.size > 1
+        return _one_mode(f, step, change)
