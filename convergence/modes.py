@@ -34,6 +34,13 @@ tests/benchmarks/recycle_cases.py; otherwise the tear keeps Wegstein's step):
   between 0 and 1 without waiting for two agreeing slopes: a point between x and
   g(x), never an extrapolation); a positive one is left to Wegstein and its adaptive
   bounds, which guard q below q_min and above 1.
+- Its last two steps are parallel, it has several moving variables, and both of its
+  last two difference pairs give a mode that grows, lambda > 1, agreeing within
+  :data:`MISFIT` of lambda - 1: the one-mode step as above, whatever the per-variable
+  slopes say (no q within the bounds turns a growing mode back; a 25 mol/s fixed purge
+  of tests/benchmarks/recycle_variants.py grew at 1.013 a pass and never converged
+  before; one estimate alone is not trusted, since from a zero-flow start the first
+  quotients are noise).
 - Its steps are not parallel, Wegstein's per-variable slopes of the latest step
   mispredict the previous step's g change by more than :data:`MISFIT`, and the tear
   was already known to be coupled (the same misprediction at its last non-parallel
@@ -92,6 +99,12 @@ def _misfit(a_previous, b_previous, slopes) -> float:
 def _eigenvalues_allowed(eigenvalues: np.ndarray) -> bool:
     real = np.real(eigenvalues)
     return bool(np.all(np.isfinite(eigenvalues)) and np.all(np.abs(1.0 - real) >= CLOSEST_TO_ONE))
+
+
+def _quotient(step: np.ndarray, change: np.ndarray) -> float | None:
+    """The eigenvalue estimate <change, step>/<step, step> of one pair (None: no step)."""
+    size = float(np.dot(step, step))
+    return float(np.dot(change, step)) / size if size > 0.0 else None
 
 
 def _cosine(first: np.ndarray, second: np.ndarray) -> float:
@@ -197,7 +210,9 @@ class DominantModes:
         steps = np.column_stack([pair[0][part] / scale for pair in before] + [a_latest])
         changes = np.column_stack([pair[1][part] / scale for pair in before] + [b_latest])
         if _cosine(a_previous, a_latest) > PARALLEL:
-            one = self._along_one_mode(part, f, (a_latest, b_latest), slopes[usable])
+            one = self._along_one_mode(
+                part, f, (a_latest, b_latest), slopes[usable], (a_previous, b_previous)
+            )
             if one is None or usable.sum() == 1 or steps.shape[1] < MEMORY:
                 return one
             # Several moving variables and a full memory: the small differences across
@@ -219,6 +234,7 @@ class DominantModes:
         f: np.ndarray,
         latest: tuple[np.ndarray, np.ndarray],
         moving_slopes: np.ndarray,
+        previous: tuple[np.ndarray, np.ndarray],
     ) -> np.ndarray | None:
         """The one-mode step of a tear whose last two steps were parallel, or None."""
         step, change = latest
@@ -228,7 +244,19 @@ class DominantModes:
             allowed = eigenvalue < 0.0
         else:
             spread = float(np.max(np.abs(moving_slopes - eigenvalue)))
-            allowed = spread <= UNIFORM * abs(1.0 - eigenvalue) and eigenvalue < 1.0
+            uniform = spread <= UNIFORM * abs(1.0 - eigenvalue)
+            # A mode that grows steadily (lambda > 1 from both of the last two pairs,
+            # agreeing within MISFIT of lambda - 1) is one no q within the bounds can
+            # turn back, whatever the per-variable slopes say: the step along it is
+            # taken. One estimate alone is not enough: from a zero-flow start the first
+            # quotients are noise.
+            before = _quotient(*previous)
+            growing = (
+                eigenvalue > 1.0
+                and before is not None
+                and abs(eigenvalue - before) <= MISFIT * (eigenvalue - 1.0)
+            )
+            allowed = (uniform and eigenvalue < 1.0) or growing
         if not allowed:
             return None
         self.coupled[part.start] = moving_slopes.size > 1

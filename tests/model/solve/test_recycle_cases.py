@@ -17,6 +17,7 @@ from convergence import SolverSettings
 from model.solve.driver import solve_flowsheet
 from model.solve.tear_problem import build_tear_problem
 from tests.benchmarks.recycle_cases import CASES, build_case
+from tests.benchmarks.recycle_variants import VARIANTS
 
 TOLERANCE = SolverSettings().tolerance
 
@@ -123,3 +124,16 @@ def test_reversible_isomerisation_matches_its_hand_balance():
     solution = solve_flowsheet(build_case("reversible isomerisation"))
     assert solution.status == "solved", solution.message
     assert solution.streams["reactor feed"].flows.sum() == pytest.approx(110.0, rel=1e-7)
+
+
+def test_a_fixed_purge_loop_the_defaults_were_not_tuned_on_reaches_its_hand_balance():
+    # tests/benchmarks/recycle_variants.py: the purge set to 25 mol/s carries the 10 fed
+    # plus 2 per mol cracked, so 7.5 mol/s crack, 30 % of the n-butane entering the
+    # cracker (25 mol/s: 10 fed, 15 recycled); the loop gas is 2.5/25 = 10 % n-butane.
+    # Its loop grows by about 1.013 per pass, which no q within the bounds turns back:
+    # the dominant-mode step along that steadily growing mode closes it.
+    solution = solve_flowsheet(VARIANTS["fixed purge of 25 mol/s"][0]())
+    assert solution.status == "solved", solution.message
+    assert _flow(solution, "cracker feed", "n-butane") == pytest.approx(7.5 / 0.3, rel=1e-7)
+    assert _flow(solution, "recycle", "ethylene") == pytest.approx(90.0, rel=1e-7)
+    assert "dominant mode" in [record.step for record in solution.convergence.history.records]
