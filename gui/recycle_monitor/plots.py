@@ -64,13 +64,19 @@ class TearSeries:
     q_band: pg.FillBetweenItem | None = None
 
 
+Q_TITLE = "Wegstein q per tear (median, min–max band)"
+#: The q plot's title after a run that took no Wegstein step (direct or quasi-Newton).
+NO_Q_TITLE = "Wegstein q: none in this run"
+
+
 class ConvergencePlots:
     """Residual and q plots of one run, tear by tear."""
 
     def __init__(self) -> None:
         self.residual_plot = _styled_plot("Largest scaled residual per tear", "residual")
         self.residual_plot.getPlotItem().setLogMode(x=False, y=True)
-        self.q_plot = _styled_plot("Wegstein q per tear (median, min–max band)", "q")
+        self.q_plot = _styled_plot(Q_TITLE, "q")
+        self.q_plot.setXLink(self.residual_plot)  # the same iterations under both
         self.series: dict[str, TearSeries] = {}
         dashed = pg.mkPen(LIMIT_COLOUR, width=1.5, style=Qt.PenStyle.DashLine)
         self.tolerance_line = pg.InfiniteLine(
@@ -157,7 +163,13 @@ class ConvergencePlots:
                 series.q_maximum.append(stats.maximum)
 
     def redraw(self) -> None:
-        """Push the collected numbers into the existing curves."""
+        """Push the collected numbers into the existing curves; the q plot's title says
+        when a run has iterations but no q (its method takes no Wegstein step)."""
+        iterated = any(series.iterations for series in self.series.values())
+        no_q = iterated and not any(series.q_iterations for series in self.series.values())
+        self.q_plot.getPlotItem().setTitle(
+            NO_Q_TITLE if no_q else Q_TITLE, color=AXIS_COLOUR, size="10pt"
+        )
         for series in self.series.values():
             x = np.asarray(series.iterations, dtype=float)
             _symbols_while_few(series, len(x))

@@ -2,7 +2,9 @@
 
 Each outer iteration of the targets loop (one recycle solve at adjusted values) adds one
 point per target: ``|measured - wanted| / scale`` on a log axis, with the target
-tolerance drawn. Curves are created once per target and updated with ``setData``.
+tolerance drawn. Curves are created once per target and updated with ``setData``. The
+plot is shown only while it has a target's points: a case without targets keeps the
+room for the tear plots.
 """
 
 from __future__ import annotations
@@ -31,6 +33,7 @@ class TargetPlot:
         self.set_tolerance(1e-7)
         self.curves: dict[str, pg.PlotDataItem] = {}
         self.data: dict[str, tuple[list[int], list[float]]] = {}
+        self.plot.setVisible(False)
 
     def set_tolerance(self, tolerance: float) -> None:
         self.tolerance_line.setValue(math.log10(tolerance))
@@ -41,6 +44,7 @@ class TargetPlot:
             self.plot.removeItem(curve)
         self.curves.clear()
         self.data.clear()
+        self.plot.setVisible(False)
 
     def append(self, record) -> None:
         """Take one ``TargetIterationRecord``."""
@@ -60,3 +64,4 @@ class TargetPlot:
             value = abs(residual) if math.isfinite(residual) else math.nan
             values.append(max(value, RESIDUAL_FLOOR))
             self.curves[label].setData(iterations, values)
+        self.plot.setVisible(bool(self.curves))

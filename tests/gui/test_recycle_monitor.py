@@ -217,3 +217,27 @@ def test_dominant_mode_steps_are_shown_and_the_checkbox_switches_them(qtbot, mon
     off = solve_fixed_point(problem, "wegstein", settings)
     assert "dominant mode" not in [record.step for record in off.history.records]
     monitor.grab().save("/tmp/accel_monitor.png")
+
+
+def test_a_run_without_wegstein_steps_says_so_and_no_target_plot_without_targets(
+    qtbot, monitor, screenshot_dir
+):
+    from gui.recycle_monitor.plots import NO_Q_TITLE, Q_TITLE
+
+    settings = SolverSettings()
+    monitor.bind_settings(settings)
+    problem = FixedPointProblem(lambda x: np.cos(x), np.array([1.0]), {"T": slice(0, 1)})
+    title = monitor.plots.q_plot.getPlotItem().titleLabel
+    monitor.show_history(solve_fixed_point(problem, "broyden", settings))
+    assert NO_Q_TITLE in title.text
+    assert not monitor.target_plot.plot.isVisibleTo(monitor)  # no targets: no third plot
+    # the q plot follows the residual plot's iterations, not a range of its own
+    qtbot.wait(20)
+    ranges = [
+        plot.getPlotItem().getViewBox().viewRange()[0]
+        for plot in (monitor.plots.residual_plot, monitor.plots.q_plot)
+    ]
+    assert ranges[0] == pytest.approx(ranges[1]) and ranges[0][1] > 6.0
+    assert monitor.grab().save(str(screenshot_dir / "monitor_broyden_run.png"))
+    monitor.show_history(solve_fixed_point(problem, "wegstein", settings))
+    assert Q_TITLE in title.text and NO_Q_TITLE not in title.text

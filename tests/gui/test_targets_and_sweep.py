@@ -32,6 +32,7 @@ def test_f5_meets_the_examples_target_and_the_monitor_plots_its_residual(
     assert abs(result.adjusted - expected) <= 1e-6 * expected  # target tolerance 1e-7
     label = "target 1: " + ARGON
     xs, ys = window.monitor.target_plot.data[label]
+    assert window.monitor.target_plot.plot.isVisibleTo(window.monitor)  # a targets run: shown
     assert len(xs) == solution.targets.outer_iterations and ys[-1] <= 1e-7
     # the document keeps its spec until the user takes the adjusted value (one undo step)
     splitter = window.case.flowsheet.blocks["Purge splitter"]
