@@ -7,6 +7,7 @@ so a pass does no unit conversion and no look-up by name.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -14,7 +15,7 @@ import numpy as np
 from model.blocks.held import HeldTemperature
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
-from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
+from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN, TemperatureSearch
 from model.properties.stream_state import TWO_PHASE, StreamState
 
 #: Relative size below which a negative flow is rounding, silently set to zero.
@@ -37,10 +38,15 @@ class CompiledBlock:
     inlet_streams: tuple[int, ...]
     outlet_ports: tuple[str, ...]
     outlet_streams: tuple[int, ...]
-    #: The temperature each of the block's energy balances found last pass, by what it
-    #: solved for: the next pass starts its search there (the recycle changes little
-    #: from pass to pass), which saves one or two evaluations of the correlations.
+    #: The temperature each of the block's flashes found last pass, by what it solved
+    #: for: the next pass starts its search there (the recycle changes little from pass
+    #: to pass), which saves one or two evaluations.
     last_temperatures: dict[str, float] = field(default_factory=dict, repr=False, compare=False)
+    #: The block's temperature-from-enthalpy searches, by what they solve for: each
+    #: keeps the molar values at its last temperature, where the next pass starts.
+    searches: dict[str, TemperatureSearch] = field(
+        default_factory=dict, repr=False, compare=False
+    )
 
 
 @dataclass
@@ -79,23 +85,22 @@ def restore_phases(basis, state: StreamState) -> None:
 
 class SetTemperatureEnthalpy:
     """Enthalpy flows at a block's set outlet temperature: each component's molar
-    enthalpy there is computed once per solve (per phase asked), so a pass needs one
-    dot product instead of the heat-capacity correlations."""
+    enthalpy and heat capacity there are computed once per solve (per phase asked), so
+    a pass needs one matrix-vector product instead of the heat-capacity correlations."""
 
     def __init__(self, basis, T: float) -> None:
         self.basis = basis
         self.T = float(T)
-        self._molar: dict[bool, tuple[np.ndarray, np.ndarray]] = {}
+        self._molar: dict[bool, np.ndarray] = {}
 
-    def flow(self, flows: np.ndarray, liquid: bool) -> float:
-        """Enthalpy flow (W) of ``flows`` at the set temperature in the given phase; the
-        basis is told it (with the heat-capacity flow) for the next block's first look."""
+    def flows(self, flows: np.ndarray, liquid: bool) -> tuple[float, float]:
+        """Enthalpy flow (W) and heat-capacity flow (W/K) of ``flows`` at the set
+        temperature in the given phase."""
         molar = self._molar.get(liquid)
         if molar is None:
-            molar = self._molar[liquid] = self.basis.at_temperature(self.T, liquid)
-        enthalpy = float(flows @ molar[0])
-        self.basis.remember_stream(flows, self.T, liquid, enthalpy, float(flows @ molar[1]))
-        return enthalpy
+            molar = self._molar[liquid] = self.basis.molar_values(self.T, liquid)
+        enthalpy, heat_capacity = (molar @ flows).tolist()
+        return enthalpy, heat_capacity
 
 
 def enthalpies(basis, states: list[StreamState]) -> np.ndarray:
@@ -130,23 +135,34 @@ def temperature_for_enthalpy(
     strict: bool,
     warnings: list[str],
     what: str = "outlet",
+    first_start: float | None = None,
 ) -> float:
     """Temperature at which ``flows`` carry enthalpy ``target`` (W).
 
-    A zero flow carries no enthalpy: its temperature is ``guess`` (the inlet's) when
-    the target is zero; a non-zero target into a zero flow is an error in a strict
-    pass, and a warning (temperature left at ``guess``) while the recycle iterates.
+    The search starts where the block's search for ``what`` evaluated last (the last
+    pass), else at ``first_start`` if given, else at ``guess``. A zero flow carries
+    no enthalpy: its temperature is ``guess`` (the inlet's) when the target is zero; a
+    non-zero target into a zero flow is an error in a strict pass, and a warning
+    (temperature left at ``guess``) while the recycle iterates.
     """
-    if flows.sum() <= 0.0:
+    if not sum(flows.tolist()) > 0.0:  # Python's sum: cheaper than numpy's for few
         if abs(target) > 0.0:
             detail = f"{target:.6g} W cannot go into the zero flow of the {what}"
             if strict:
                 raise CalculationError(block.name, detail)
             warnings.append(detail)
         return guess
-    start = block.last_temperatures.get(what, guess)
+    search = block.searches.get(what)
+    if search is None:
+        search = block.searches[what] = TemperatureSearch()
+    if search.T is not None:
+        start = search.T
+    elif first_start is not None and math.isfinite(first_start):
+        start = first_start
+    else:
+        start = guess
     try:
-        T = float(basis.temperature_from_enthalpy(flows, target, liquid, start))
+        T = float(basis.temperature_from_enthalpy(flows, target, liquid, start, search))
     except InputError as error:
         if strict:
             raise CalculationError(block.name, f"{what}: {error.allowed}") from None
@@ -157,7 +173,6 @@ def temperature_for_enthalpy(
         limit = T_SEARCH_MIN if target < low else T_SEARCH_MAX
         warnings.append(HeldTemperature(what, target, (low, high), limit, _BRACKET))
         return limit
-    block.last_temperatures[what] = T
     return T
 
 
@@ -174,28 +189,41 @@ def energy_outlet(
     strict: bool,
     warnings: list[str],
     at_set_temperature: SetTemperatureEnthalpy | None = None,
-) -> tuple[float, float, float | None]:
-    """Outlet temperature, duty and outlet enthalpy for the modes "outlet temperature",
-    "adiabatic" and "duty".
+    inlet_heat_capacity: float | None = None,
+) -> tuple[float, float, float | None, float | None]:
+    """Outlet temperature, duty, outlet enthalpy and outlet heat-capacity flow for the
+    modes "outlet temperature", "adiabatic" and "duty".
 
     The duty is the heat added, ``H_out - H_in`` (W); ``enthalpy_in`` is the inlet's.
     The outlet enthalpy (W) is None when the temperature search was held at its limit
-    (the outlet then does not carry the enthalpy asked for).
+    (the outlet then does not carry the enthalpy asked for); its heat-capacity flow
+    (W/K) is known at a set temperature only. ``inlet_heat_capacity``, when the
+    outlet has the inlet's flows and that is known, starts a block's first search at
+    ``T_in + duty / Cp_in``.
     """
     liquid = phase == "liquid"
     if mode == "outlet temperature":
         if at_set_temperature is not None:
-            out = at_set_temperature.flow(flows, liquid)
+            out, heat_capacity = at_set_temperature.flows(flows, liquid)
         else:
-            out = basis.stream_enthalpy_flow(flows, set_temperature, liquid)
-        return float(set_temperature), out - enthalpy_in, out
+            out, heat_capacity = basis.stream_enthalpy_and_heat_capacity_flow(
+                flows, set_temperature, liquid
+            )
+        return float(set_temperature), out - enthalpy_in, out, heat_capacity
     duty = 0.0 if mode == "adiabatic" else float(set_duty)
     warned = len(warnings)
     target = enthalpy_in + duty
-    T = temperature_for_enthalpy(block, basis, flows, target, liquid, inlet_T, strict, warnings)
-    if flows.sum() <= 0.0:
+    first_start = (
+        inlet_T + duty / inlet_heat_capacity
+        if inlet_heat_capacity is not None and inlet_heat_capacity > 0.0
+        else None
+    )
+    T = temperature_for_enthalpy(
+        block, basis, flows, target, liquid, inlet_T, strict, warnings, first_start=first_start
+    )
+    if not sum(flows.tolist()) > 0.0:
         duty, target = 0.0, 0.0
-    return T, duty, (target if len(warnings) == warned else None)
+    return T, duty, (target if len(warnings) == warned else None), None
 
 
 def one_phase(block: CompiledBlock, phase: str, field: str = "phase") -> str:

@@ -66,7 +66,7 @@ def compute_heater(
     if phase in (EQUILIBRIUM, TWO_PHASE):
         return _equilibrium_outlet(block, inlet, P, basis, strict)
     warnings: list[str] = []
-    T, duty, outlet_enthalpy = energy_outlet(
+    T, duty, outlet_enthalpy, heat_capacity = energy_outlet(
         block,
         basis,
         inlet.flows,
@@ -79,8 +79,9 @@ def compute_heater(
         strict,
         warnings,
         block.at_set_temperature,
+        inlet.heat_capacity if phase == inlet.phase else None,
     )
-    outlet = StreamState(inlet.flows, T, P, phase, outlet_enthalpy)
+    outlet = StreamState(inlet.flows, T, P, phase, outlet_enthalpy, None, heat_capacity)
     return BlockOutput({"out": outlet}, BlockResult(duty_W=duty, warnings=warnings))
 
 

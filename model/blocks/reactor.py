@@ -127,7 +127,7 @@ def compute_reactor(
     flows, extents = react(block, inlet.flows, strict, warnings)
     phase = one_phase(block, block.phase or inlet.phase)
     P = outlet_pressure(block, inlet.P, block.pressure_drop)
-    T, duty, outlet_enthalpy = energy_outlet(
+    T, duty, outlet_enthalpy, heat_capacity = energy_outlet(
         block,
         basis,
         flows,
@@ -146,4 +146,5 @@ def compute_reactor(
         values[f"extent {label}"] = (float(extent), "molar_flow")
         values[f"heat of reaction {label}"] = (float(heat), "molar_enthalpy")
     result = BlockResult(duty_W=duty, values=values, warnings=warnings)
-    return BlockOutput({"out": StreamState(flows, T, P, phase, outlet_enthalpy)}, result)
+    outlet = StreamState(flows, T, P, phase, outlet_enthalpy, None, heat_capacity)
+    return BlockOutput({"out": outlet}, result)

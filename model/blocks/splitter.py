@@ -66,17 +66,19 @@ def compute_splitter(
         shares = _set_flow_shares(block, float(inlet.flows.sum()), warnings)
     else:
         shares = block.fractions
-    known = inlet.enthalpy  # enthalpy is linear in the flows at one T: it splits too
+    # enthalpy and heat capacity are linear in the flows at one T: they split too
+    known, capacity, vapor = inlet.enthalpy, inlet.heat_capacity, inlet.vapor_flows
     outlets = {
         port: StreamState(
             inlet.flows * share,
             inlet.T,
             inlet.P,
             inlet.phase,
-            None if known is None else known * float(share),
-            None if inlet.vapor_flows is None else inlet.vapor_flows * share,
+            None if known is None else known * share,
+            None if vapor is None else vapor * share,
+            None if capacity is None else capacity * share,
         )
-        for port, share in zip(block.outlet_ports, shares, strict=True)
+        for port, share in zip(block.outlet_ports, shares.tolist(), strict=True)
     }
     values = {
         f"fraction to {port}": (float(share), "fraction")

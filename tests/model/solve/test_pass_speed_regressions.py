@@ -131,15 +131,21 @@ def test_temperature_solve_lands_on_the_root_to_rounding():
 
 
 def _count_evaluations(monkeypatch) -> list[int]:
-    """Count the correlation evaluations of the single-stream path (remembered ones free)."""
+    """Count the correlation evaluations of the single-stream path, weighted by the flows
+    or per component (remembered ones and dot products with kept ones are free)."""
     count = [0]
-    real = CpTable.stream_totals
+    totals, molar = CpTable.stream_totals, CpTable.molar_values
 
-    def counted(table, flows, T):
+    def counted_totals(table, flows, T):
         count[0] += 1
-        return real(table, flows, T)
+        return totals(table, flows, T)
 
-    monkeypatch.setattr(CpTable, "stream_totals", counted)
+    def counted_molar(table, T):
+        count[0] += 1
+        return molar(table, T)
+
+    monkeypatch.setattr(CpTable, "stream_totals", counted_totals)
+    monkeypatch.setattr(CpTable, "molar_values", counted_molar)
     return count
 
 
@@ -162,19 +168,42 @@ def _compiled(*specs: tuple[str, str, dict]):
     return compile_flowsheet(sheet, basis), basis
 
 
-def test_duty_heater_after_a_set_temperature_heater_reuses_both_evaluations(monkeypatch):
+def test_duty_heater_after_a_set_temperature_heater_starts_from_its_heat_capacity(monkeypatch):
     compiled, basis = _compiled(
         ("Heater", "H1", {"T": TypedQuantity(400.0, "K")}),
         ("Heater", "H2", {"mode": "duty", "duty": TypedQuantity(5.0, "kW")}),
     )
     inlet = StreamState(np.array([2.0, 1.0, 0.0]), 320.0, 2e5, "vapor")
     heated = compute_block(compiled.blocks["H1"], [inlet], basis).outlets["out"]
+    assert heated.enthalpy is not None and heated.heat_capacity is not None
     evaluations = _count_evaluations(monkeypatch)
     outlet = compute_block(compiled.blocks["H2"], [heated], basis).outlets["out"]
-    # H2's inlet enthalpy and its T solve's first step are H1's outlet, already known;
-    # Newton from 400 K to about 456 K then needs three more evaluations
+    # H2's inlet enthalpy and heat capacity are H1's, carried on the state: Newton starts
+    # at 400 K + 5 kW / Cp (about 456 K) and needs three evaluations (the last one only
+    # confirms the step is below 1e-9 K), where from 400 K it needed four
     assert evaluations == [3]
     expected = basis.stream_enthalpy_flow(heated.flows, 400.0, False) + 5000.0
     assert basis.stream_enthalpy_flow(outlet.flows, outlet.T, False) == pytest.approx(
+        expected, rel=1e-13
+    )
+
+
+def test_next_pass_starts_where_the_search_evaluated_last(monkeypatch):
+    compiled, basis = _compiled(("Heater", "H", {"mode": "duty", "duty": TypedQuantity(5.0, "kW")}))
+    inlet = StreamState(np.array([2.0, 1.0, 0.0]), 320.0, 2e5, "vapor")
+    first = compute_block(compiled.blocks["H"], [inlet], basis).outlets["out"]
+    evaluations = _count_evaluations(monkeypatch)
+    again = compute_block(compiled.blocks["H"], [inlet], basis).outlets["out"]
+    # the same inlet: the kept molar values at the last point give the step (below
+    # 1e-9 K) by a dot product; no evaluation of the correlations
+    assert evaluations == [0]
+    assert again.T == pytest.approx(first.T, abs=1e-9)
+    moved = StreamState(np.array([2.0, 1.001, 0.0]), 320.0, 2e5, "vapor")
+    outlet = compute_block(compiled.blocks["H"], [moved], basis).outlets["out"]
+    # a recycle that moved: one evaluation for the inlet's enthalpy (this state carries
+    # none), the search's first step still free, then Newton needs two more
+    assert evaluations == [3]
+    expected = basis.stream_enthalpy_flow(moved.flows, 320.0, False) + 5000.0
+    assert basis.stream_enthalpy_flow(moved.flows, outlet.T, False) == pytest.approx(
         expected, rel=1e-13
     )
