@@ -44,9 +44,7 @@ class CompiledBlock:
     last_temperatures: dict[str, float] = field(default_factory=dict, repr=False, compare=False)
     #: The block's temperature-from-enthalpy searches, by what they solve for: each
     #: keeps the molar values at its last temperature, where the next pass starts.
-    searches: dict[str, TemperatureSearch] = field(
-        default_factory=dict, repr=False, compare=False
-    )
+    searches: dict[str, TemperatureSearch] = field(default_factory=dict, repr=False, compare=False)
 
 
 @dataclass

@@ -347,7 +347,6 @@ class CpTable:
                 enthalpy += coefficient * power / (order + 1.0)
         return enthalpy, heat_capacity
 
-
     def molar_values(self, T: float) -> tuple[list[float], list[float]]:
         """Each component's molar enthalpy (``enthalpy_offset`` plus the integral of Cp
         from 298.15 K, J/mol) and Cp (J/mol/K) at one temperature, as Python floats in

@@ -202,9 +202,7 @@ class PropertyBasis:
         if search is None:
 
             def residual(T: float) -> tuple[float, float]:
-                enthalpy, heat_capacity = self._stream_enthalpy_and_heat_capacity(
-                    flows, T, liquid
-                )
+                enthalpy, heat_capacity = self._stream_enthalpy_and_heat_capacity(flows, T, liquid)
                 return enthalpy - enthalpy_flow, heat_capacity
 
         else:
