@@ -134,6 +134,7 @@ def temperature_for_enthalpy(
     warnings: list[str],
     what: str = "outlet",
     first_start: float | None = None,
+    total: float | None = None,
 ) -> float:
     """Temperature at which ``flows`` carry enthalpy ``target`` (W).
 
@@ -141,9 +142,12 @@ def temperature_for_enthalpy(
     pass), else at ``first_start`` if given, else at ``guess``. A zero flow carries
     no enthalpy: its temperature is ``guess`` (the inlet's) when the target is zero; a
     non-zero target into a zero flow is an error in a strict pass, and a warning
-    (temperature left at ``guess``) while the recycle iterates.
+    (temperature left at ``guess``) while the recycle iterates. ``total`` is the sum
+    of ``flows`` if the caller has it.
     """
-    if not sum(flows.tolist()) > 0.0:  # Python's sum: cheaper than numpy's for few
+    if total is None:
+        total = sum(flows.tolist())  # Python's sum: cheaper than numpy's for few
+    if not total > 0.0:
         if abs(target) > 0.0:
             detail = f"{target:.6g} W cannot go into the zero flow of the {what}"
             if strict:
@@ -216,10 +220,11 @@ def energy_outlet(
         if inlet_heat_capacity is not None and inlet_heat_capacity > 0.0
         else None
     )
+    total = sum(flows.tolist())
     T = temperature_for_enthalpy(
-        block, basis, flows, target, liquid, inlet_T, strict, warnings, first_start=first_start
+        block, basis, flows, target, liquid, inlet_T, strict, warnings, "outlet", first_start, total
     )
-    if not sum(flows.tolist()) > 0.0:
+    if not total > 0.0:
         duty, target = 0.0, 0.0
     return T, duty, (target if len(warnings) == warned else None), None
 

@@ -10,7 +10,7 @@ import numpy as np
 from model.blocks.base import (
     BlockOutput,
     CompiledBlock,
-    enthalpies,
+    enthalpy,
     one_phase,
     temperature_for_enthalpy,
 )
@@ -59,7 +59,9 @@ def compute_mixer(
     for inlet in inlets[1:]:
         flows += inlet.flows
     P = block.P if block.P is not None else min(s.P for s in inlets)
-    carrying = [s for s in inlets if s.flows.sum() > 0.0] or inlets
+    # Python's sums: for a few inlets of tens of components cheaper than numpy's
+    totals = [sum(s.flows.tolist()) for s in inlets]
+    carrying = [s for s, total in zip(inlets, totals, strict=True) if total > 0.0] or inlets
     temperatures = [s.T for s in carrying]
     warnings: list[str] = []
     outlet_enthalpy = None
@@ -68,17 +70,17 @@ def compute_mixer(
         if all(s.enthalpy is not None for s in inlets):
             outlet_enthalpy = float(sum(s.enthalpy for s in inlets))
     else:
-        totals = np.array([s.flows.sum() for s in carrying])
+        carried = [total for total in totals if total > 0.0]
         guess = (
-            float(np.dot(totals, temperatures) / totals.sum())
-            if totals.sum() > 0
+            sum(total * t for total, t in zip(carried, temperatures, strict=True)) / sum(carried)
+            if carried
             else (float(np.mean(temperatures)))
         )
-        target = float(enthalpies(basis, inlets).sum())
+        target = sum(enthalpy(basis, s) for s in inlets)
         T = temperature_for_enthalpy(
             block, basis, flows, target, phase == "liquid", guess, strict, warnings
         )
-        if not warnings and flows.sum() > 0.0:  # not held at a limit: it carries the target
+        if not warnings and sum(totals) > 0.0:  # not held at a limit: it carries the target
             outlet_enthalpy = target
     outlet = StreamState(flows, T, P, phase, outlet_enthalpy)
     return BlockOutput({"out": outlet}, BlockResult(warnings=warnings))

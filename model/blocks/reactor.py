@@ -100,13 +100,13 @@ def react(
     its extent is limited to the reactant present, with a warning.
     """
     extents = np.zeros(len(block.labels))
-    scale = max(float(flows.max(initial=0.0)), 1e-300)
+    scale = max(0.0, *flows.tolist(), 1e-300)  # Python's max: cheaper than numpy's for few
     for row in range(len(block.labels)):
         nu = block.stoichiometry[row]
         key = block.key_index[row]
         extent = block.conversion[row] * flows[key] / -nu[key]
         after = flows + extent * nu
-        if np.any(after < -ROUNDING * scale):
+        if after.min() < -ROUNDING * scale:  # (NaN flows: False, as np.any(NaN < x))
             if strict:
                 raise CalculationError(block.name, _shortfall_message(block, row, flows, extent))
             warnings.append(_shortfall_message(block, row, flows, extent))
