@@ -15,7 +15,7 @@ import numpy as np
 from model.blocks.held import HeldTemperature
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
-from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN, TemperatureSearch
+from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN, KeptMolarValues
 from model.properties.stream_state import TWO_PHASE, StreamState
 
 #: Relative size below which a negative flow is rounding, silently set to zero.
@@ -42,9 +42,12 @@ class CompiledBlock:
     #: for: the next pass starts its search there (the recycle changes little from pass
     #: to pass), which saves one or two evaluations.
     last_temperatures: dict[str, float] = field(default_factory=dict, repr=False, compare=False)
-    #: The block's temperature-from-enthalpy searches, by what they solve for: each
-    #: keeps the molar values at its last temperature, where the next pass starts.
-    searches: dict[str, TemperatureSearch] = field(default_factory=dict, repr=False, compare=False)
+    #: Molar values kept from pass to pass: per temperature-from-enthalpy search (by what
+    #: it solves for) at its last point, where the next pass starts; per inlet ("inlet
+    #: <k>") that carries no enthalpy, at its temperature.
+    kept_molar_values: dict[str, KeptMolarValues] = field(
+        default_factory=dict, repr=False, compare=False
+    )
 
 
 @dataclass
@@ -63,6 +66,25 @@ def enthalpy(basis, state: StreamState) -> float:
     if state.phase == TWO_PHASE and state.vapor_flows is None:
         restore_phases(basis, state)
     return state.enthalpy_flow(basis)
+
+
+def inlet_enthalpy(block: CompiledBlock, basis, state: StreamState, inlet: int) -> float:
+    """Enthalpy flow (W) of the block's inlet number ``inlet``: the one carried on it,
+    else by the molar values the block keeps for that inlet (a dot product when its
+    temperature and phase are last pass's, as a tear's often are)."""
+    if state.enthalpy is not None:
+        return state.enthalpy
+    if state.phase == TWO_PHASE or state.vapor_flows is not None:
+        return enthalpy(basis, state)
+    molar = _kept(block, f"inlet {inlet}").molar(basis, state.T, state.liquid)
+    return float(molar[0] @ state.flows)
+
+
+def _kept(block: CompiledBlock, key: str) -> KeptMolarValues:
+    kept = block.kept_molar_values.get(key)
+    if kept is None:
+        kept = block.kept_molar_values[key] = KeptMolarValues()
+    return kept
 
 
 def restore_phases(basis, state: StreamState) -> None:
@@ -104,9 +126,9 @@ class SetTemperatureEnthalpy:
 def enthalpies(basis, states: list[StreamState]) -> np.ndarray:
     """Enthalpy flows of several streams, W.
 
-    One stream at a time on the single-stream path: a block's few streams are mostly
-    ones the pass has just evaluated (an upstream block's outlet at its set
-    temperature), which that path remembers.
+    One stream at a time: a block's few streams mostly carry their enthalpy (from the
+    block that made them); the others take the single-stream path, which remembers its
+    last few results.
     """
     return np.array([enthalpy(basis, state) for state in states])
 
@@ -139,11 +161,12 @@ def temperature_for_enthalpy(
     """Temperature at which ``flows`` carry enthalpy ``target`` (W).
 
     The search starts where the block's search for ``what`` evaluated last (the last
-    pass), else at ``first_start`` if given, else at ``guess``. A zero flow carries
-    no enthalpy: its temperature is ``guess`` (the inlet's) when the target is zero; a
-    non-zero target into a zero flow is an error in a strict pass, and a warning
-    (temperature left at ``guess``) while the recycle iterates. ``total`` is the sum
-    of ``flows`` if the caller has it.
+    pass; its kept molar values make that first step a dot product), else at
+    ``first_start`` if given, else at ``guess``. A zero flow carries no enthalpy: its
+    temperature is ``guess`` (the inlet's) when the target is zero; a non-zero target
+    into a zero flow is an error in a strict pass, and a warning (temperature left at
+    ``guess``) while the recycle iterates. ``total`` is the sum of ``flows`` if the
+    caller has it.
     """
     if total is None:
         total = sum(flows.tolist())  # Python's sum: cheaper than numpy's for few
@@ -154,17 +177,15 @@ def temperature_for_enthalpy(
                 raise CalculationError(block.name, detail)
             warnings.append(detail)
         return guess
-    search = block.searches.get(what)
-    if search is None:
-        search = block.searches[what] = TemperatureSearch()
-    if search.T is not None:
-        start = search.T
+    kept = _kept(block, what)
+    if kept.T is not None:
+        start = kept.T
     elif first_start is not None and math.isfinite(first_start):
         start = first_start
     else:
         start = guess
     try:
-        T = float(basis.temperature_from_enthalpy(flows, target, liquid, start, search))
+        T = float(basis.temperature_from_enthalpy(flows, target, liquid, start, kept))
     except InputError as error:
         if strict:
             raise CalculationError(block.name, f"{what}: {error.allowed}") from None

@@ -18,6 +18,7 @@ from model.blocks.base import (
     SetTemperatureEnthalpy,
     energy_outlet,
     enthalpy,
+    inlet_enthalpy,
     outlet_pressure,
 )
 from model.blocks.result import BlockResult
@@ -71,7 +72,7 @@ def compute_heater(
         basis,
         inlet.flows,
         phase,
-        enthalpy(basis, inlet),
+        inlet_enthalpy(block, basis, inlet, 0),
         block.mode,
         block.T,
         block.duty,

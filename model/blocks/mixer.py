@@ -10,7 +10,7 @@ import numpy as np
 from model.blocks.base import (
     BlockOutput,
     CompiledBlock,
-    enthalpy,
+    inlet_enthalpy,
     one_phase,
     temperature_for_enthalpy,
 )
@@ -76,7 +76,7 @@ def compute_mixer(
             if carried
             else (float(np.mean(temperatures)))
         )
-        target = sum(enthalpy(basis, s) for s in inlets)
+        target = sum(inlet_enthalpy(block, basis, s, k) for k, s in enumerate(inlets))
         T = temperature_for_enthalpy(
             block, basis, flows, target, phase == "liquid", guess, strict, warnings
         )

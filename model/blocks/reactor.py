@@ -20,7 +20,7 @@ from model.blocks.base import (
     CompiledBlock,
     SetTemperatureEnthalpy,
     energy_outlet,
-    enthalpy,
+    inlet_enthalpy,
     one_phase,
     outlet_pressure,
 )
@@ -132,7 +132,7 @@ def compute_reactor(
         basis,
         flows,
         phase,
-        enthalpy(basis, inlet),
+        inlet_enthalpy(block, basis, inlet, 0),
         block.mode,
         block.T,
         block.duty,

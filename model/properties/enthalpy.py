@@ -154,7 +154,7 @@ class PropertyBasis:
         enthalpy_flow: float,
         liquid: bool,
         T_guess: float = 298.15,
-        search: TemperatureSearch | None = None,
+        kept: KeptMolarValues | None = None,
     ) -> float:
         """Temperature at which a stream has the given enthalpy flow.
 
@@ -174,9 +174,9 @@ class PropertyBasis:
             Phase of the stream.
         T_guess
             Starting temperature, K; a good guess saves iterations.
-        search
-            A block's :class:`TemperatureSearch`: every evaluation then computes each
-            component's molar enthalpy and Cp (the same cost) and the search keeps the
+        kept
+            A block's :class:`KeptMolarValues`: every evaluation then computes each
+            component's molar enthalpy and Cp (the same cost) and ``kept`` keeps the
             last, so that an evaluation at that temperature in a later call (the next
             pass starts there) is a dot product with the flows.
 
@@ -199,7 +199,7 @@ class PropertyBasis:
                 return guess
             raise InputError("enthalpy_flow", enthalpy_flow, "0 W for a stream with no flow")
 
-        if search is None:
+        if kept is None:
 
             def residual(T: float) -> tuple[float, float]:
                 enthalpy, heat_capacity = self._stream_enthalpy_and_heat_capacity(flows, T, liquid)
@@ -208,7 +208,7 @@ class PropertyBasis:
         else:
 
             def residual(T: float) -> tuple[float, float]:
-                enthalpy, heat_capacity = (search.molar(self, T, liquid) @ flows).tolist()
+                enthalpy, heat_capacity = (kept.molar(self, T, liquid) @ flows).tolist()
                 return enthalpy - enthalpy_flow, heat_capacity
 
         root = _bracketed_newton(residual, guess, T_SEARCH_MIN, T_SEARCH_MAX)
@@ -399,13 +399,13 @@ class PropertyBasis:
         return np.asarray(flows, dtype=float) > 0.0
 
 
-class TemperatureSearch:
-    """One block's temperature-from-enthalpy search, kept from pass to pass.
-
-    It holds each component's molar enthalpy and heat capacity (:meth:`PropertyBasis.
-    molar_values`) at the temperature it evaluated last. The next pass starts there
-    (:attr:`T`): the recycle changes little from pass to pass, and that first step is
-    then a dot product with the new flows instead of the correlations.
+class KeptMolarValues:
+    """Each component's molar enthalpy and heat capacity (:meth:`PropertyBasis.
+    molar_values`) at the temperature and phase asked last, kept from pass to pass by a
+    block: for its temperature searches (the next pass starts where the last one
+    evaluated, :attr:`T`) and for inlets that carry no enthalpy (a tear stream whose
+    temperature stays put while its flows move). A request at that temperature again
+    costs a dot product with the flows instead of the correlations.
     """
 
     __slots__ = ("T", "liquid", "values")
@@ -416,7 +416,8 @@ class TemperatureSearch:
         self.values: np.ndarray | None = None
 
     def molar(self, basis: PropertyBasis, T: float, liquid: bool) -> np.ndarray:
-        """The (2, n) molar values at ``T``: kept ones if at that T and phase, else new."""
+        """The (2, n) molar values at ``T``: the kept ones if at that T and phase, else
+        new ones (kept from now on)."""
         if T != self.T or liquid != self.liquid or self.values is None:
             self.values = basis.molar_values(T, liquid)
             self.T, self.liquid = T, liquid
