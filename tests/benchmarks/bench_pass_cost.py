@@ -140,7 +140,7 @@ def _worker(sizes: list[int], passes: int) -> None:
 
 def _sizes(quick: bool) -> tuple[list[int], int]:
     """Flowsheet sizes (blocks), and block passes per size and round (sets the repeats)."""
-    return ([100, 300], 600) if quick else ([100, 300, 1000], 3000)
+    return ([100, 300], 600) if quick else ([100, 300, 1000], 6000)
 
 
 def _best(rounds: list[dict[str, float]]) -> dict[str, float]:
@@ -150,7 +150,7 @@ def _best(rounds: list[dict[str, float]]) -> dict[str, float]:
 def main(quick: bool = False, against: Path | None = None, profile: bool = False) -> dict:
     """Measure, print the table (and the ratios against another checkout), return all."""
     sizes, passes = _sizes(quick)
-    rounds = 3 if quick else 8
+    rounds = 3 if quick else 10
     other = None
     if against is not None:
         environment = dict(os.environ, PYTHONPATH=str(against))
