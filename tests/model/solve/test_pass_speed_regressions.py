@@ -4,7 +4,10 @@ A pass asks for one stream's enthalpy at a time. That path sums the TRC ideal-ga
 correlation term by term (Python floats for few components, numpy rows for many)
 instead of calling the bit-exact vectorised functions, and remembers its last few
 results, so that a block's inlet is not evaluated again right after the block upstream
-evaluated it as its outlet. These tests pin each of those down: agreement with
+evaluated it as its outlet; and a block keeps each component's molar enthalpy and Cp
+at the temperature its search evaluated last (and at an inlet's temperature), so that
+the next pass's first step there is a dot product. These tests pin each of those down:
+agreement with
 chemicals' ``TRCCp`` / ``TRCCp_integral`` (Kabo & Roganov 1994, chemicals 1.5.2) and
 with the vectorised path, no stale remembered values, a temperature solve converged to
 rounding, and the number of correlation evaluations of a block (counts, not timings;
@@ -22,7 +25,7 @@ from model.flowsheet.document import Flowsheet
 from model.flowsheet.spec_values import ComponentAmounts, TypedQuantity
 from model.properties.components import lookup_component
 from model.properties.cp_correlations import SCALAR_PATH_LIMIT, TRC, CpCorrelation, CpTable
-from model.properties.enthalpy import PropertyBasis
+from model.properties.enthalpy import KeptMolarValues, PropertyBasis
 from model.properties.stream_state import StreamState
 from model.solve.compile import compile_flowsheet
 
@@ -127,6 +130,44 @@ def test_temperature_solve_lands_on_the_root_to_rounding():
         target = basis.enthalpy_flow(flows[None, :], [T], [liquid])[0]
         guess = T + rng.choice([-150.0, -20.0, 3.0, 40.0, 300.0])
         found = basis.temperature_from_enthalpy(flows, target, liquid, guess)
+        assert found == pytest.approx(T, abs=1e-11, rel=1e-13)
+
+
+@pytest.mark.parametrize("size", [3, 30])  # the Python-float path, and numpy's past 24
+def test_molar_values_weighted_by_flows_match_the_vectorised_stream_enthalpy(size):
+    names = [
+        "methane", "water", "nitrogen", "ethane", "propane", "n-butane", "isobutane",
+        "n-pentane", "n-hexane", "n-heptane", "n-octane", "ethylene", "propylene", "benzene",
+        "toluene", "o-xylene", "cyclohexane", "methanol", "ethanol", "acetone", "hydrogen",
+        "oxygen", "argon", "carbon monoxide", "carbon dioxide", "ammonia", "hydrogen sulfide",
+        "sulfur dioxide", "acetic acid", "dimethyl ether",
+    ][:size]  # fmt: skip
+    basis = PropertyBasis([lookup_component(name) for name in names])
+    flows = np.random.default_rng(7).uniform(0.1, 3.0, size)
+    for T, liquid in ((250.0, True), (400.0, False), (1300.0, False), (330.0, True)):
+        enthalpy, heat_capacity = basis.molar_values(T, liquid) @ flows
+        # the vectorised forms follow chemicals' TRCCp / TRCCp_integral operation by
+        # operation; the molar values regroup the same terms: equal to rounding
+        assert enthalpy == pytest.approx(
+            basis.enthalpy_flow(flows[None, :], [T], [liquid])[0], rel=1e-12
+        )
+        assert heat_capacity == pytest.approx(
+            basis.heat_capacity_flow(flows[None, :], [T], [liquid])[0], rel=1e-12
+        )
+
+
+def test_temperature_solve_with_kept_molar_values_lands_on_the_root_to_rounding():
+    # as from pass to pass: one KeptMolarValues for a stream whose flows and target move
+    basis = PropertyBasis([lookup_component(n) for n in ("methane", "water", "nitrogen")])
+    rng = np.random.default_rng(4)
+    kept = KeptMolarValues()
+    for _ in range(200):
+        flows = rng.uniform(0.0, 5.0, 3)
+        liquid = bool(rng.uniform() < 0.3)
+        T = rng.uniform(200.0, 500.0) if liquid else rng.uniform(60.0, 3000.0)
+        target = basis.enthalpy_flow(flows[None, :], [T], [liquid])[0]
+        start = kept.T if kept.T is not None else 298.15
+        found = basis.temperature_from_enthalpy(flows, target, liquid, start, kept)
         assert found == pytest.approx(T, abs=1e-11, rel=1e-13)
 
 
