@@ -7,11 +7,10 @@ results, so that a block's inlet is not evaluated again right after the block up
 evaluated it as its outlet; and a block keeps each component's molar enthalpy and Cp
 at the temperature its search evaluated last (and at an inlet's temperature), so that
 the next pass's first step there is a dot product. These tests pin each of those down:
-agreement with
-chemicals' ``TRCCp`` / ``TRCCp_integral`` (Kabo & Roganov 1994, chemicals 1.5.2) and
-with the vectorised path, no stale remembered values, a temperature solve converged to
-rounding, and the number of correlation evaluations of a block (counts, not timings;
-the timings are in tests/benchmarks).
+agreement with chemicals' ``TRCCp`` / ``TRCCp_integral`` (Kabo & Roganov 1994,
+chemicals 1.5.2) and with the vectorised path, no stale remembered values, a
+temperature solve converged to rounding, and the number of correlation evaluations of
+a block (counts, not timings; the timings are in tests/benchmarks).
 """
 
 from __future__ import annotations
