@@ -7,6 +7,7 @@ so a pass does no unit conversion and no look-up by name.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -14,7 +15,7 @@ import numpy as np
 from model.blocks.held import HeldTemperature
 from model.blocks.result import BlockResult
 from model.errors import CalculationError, InputError
-from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN
+from model.properties.enthalpy import T_SEARCH_MAX, T_SEARCH_MIN, KeptMolarValues
 from model.properties.stream_state import TWO_PHASE, StreamState
 
 #: Relative size below which a negative flow is rounding, silently set to zero.
@@ -37,10 +38,16 @@ class CompiledBlock:
     inlet_streams: tuple[int, ...]
     outlet_ports: tuple[str, ...]
     outlet_streams: tuple[int, ...]
-    #: The temperature each of the block's energy balances found last pass, by what it
-    #: solved for: the next pass starts its search there (the recycle changes little
-    #: from pass to pass), which saves one or two evaluations of the correlations.
+    #: The temperature each of the block's flashes found last pass, by what it solved
+    #: for: the next pass starts its search there (the recycle changes little from pass
+    #: to pass), which saves one or two evaluations.
     last_temperatures: dict[str, float] = field(default_factory=dict, repr=False, compare=False)
+    #: Molar values kept from pass to pass: per temperature-from-enthalpy search (by what
+    #: it solves for) at its last point, where the next pass starts; per inlet ("inlet
+    #: <k>") that carries no enthalpy, at its temperature.
+    kept_molar_values: dict[str, KeptMolarValues] = field(
+        default_factory=dict, repr=False, compare=False
+    )
 
 
 @dataclass
@@ -61,6 +68,25 @@ def enthalpy(basis, state: StreamState) -> float:
     return state.enthalpy_flow(basis)
 
 
+def inlet_enthalpy(block: CompiledBlock, basis, state: StreamState, inlet: int) -> float:
+    """Enthalpy flow (W) of the block's inlet number ``inlet``: the one carried on it,
+    else by the molar values the block keeps for that inlet (a dot product when its
+    temperature and phase are last pass's, as a tear's often are)."""
+    if state.enthalpy is not None:
+        return state.enthalpy
+    if state.phase == TWO_PHASE or state.vapor_flows is not None:
+        return enthalpy(basis, state)
+    molar = _kept(block, f"inlet {inlet}").molar(basis, state.T, state.liquid)
+    return float(molar[0] @ state.flows)
+
+
+def _kept(block: CompiledBlock, key: str) -> KeptMolarValues:
+    kept = block.kept_molar_values.get(key)
+    if kept is None:
+        kept = block.kept_molar_values[key] = KeptMolarValues()
+    return kept
+
+
 def restore_phases(basis, state: StreamState) -> None:
     """Give a two-phase state that carries only its flows, T and P (a tear stream's
     iterate) its phases back, by the property method's flash at its T and P.
@@ -79,31 +105,30 @@ def restore_phases(basis, state: StreamState) -> None:
 
 class SetTemperatureEnthalpy:
     """Enthalpy flows at a block's set outlet temperature: each component's molar
-    enthalpy there is computed once per solve (per phase asked), so a pass needs one
-    dot product instead of the heat-capacity correlations."""
+    enthalpy and heat capacity there are computed once per solve (per phase asked), so
+    a pass needs one matrix-vector product instead of the heat-capacity correlations."""
 
     def __init__(self, basis, T: float) -> None:
         self.basis = basis
         self.T = float(T)
-        self._molar: dict[bool, tuple[np.ndarray, np.ndarray]] = {}
+        self._molar: dict[bool, np.ndarray] = {}
 
-    def flow(self, flows: np.ndarray, liquid: bool) -> float:
-        """Enthalpy flow (W) of ``flows`` at the set temperature in the given phase; the
-        basis is told it (with the heat-capacity flow) for the next block's first look."""
+    def flows(self, flows: np.ndarray, liquid: bool) -> tuple[float, float]:
+        """Enthalpy flow (W) and heat-capacity flow (W/K) of ``flows`` at the set
+        temperature in the given phase."""
         molar = self._molar.get(liquid)
         if molar is None:
-            molar = self._molar[liquid] = self.basis.at_temperature(self.T, liquid)
-        enthalpy = float(flows @ molar[0])
-        self.basis.remember_stream(flows, self.T, liquid, enthalpy, float(flows @ molar[1]))
-        return enthalpy
+            molar = self._molar[liquid] = self.basis.molar_values(self.T, liquid)
+        enthalpy, heat_capacity = (molar @ flows).tolist()
+        return enthalpy, heat_capacity
 
 
 def enthalpies(basis, states: list[StreamState]) -> np.ndarray:
     """Enthalpy flows of several streams, W.
 
-    One stream at a time on the single-stream path: a block's few streams are mostly
-    ones the pass has just evaluated (an upstream block's outlet at its set
-    temperature), which that path remembers.
+    One stream at a time: a block's few streams mostly carry their enthalpy (from the
+    block that made them); the others take the single-stream path, which remembers its
+    last few results.
     """
     return np.array([enthalpy(basis, state) for state in states])
 
@@ -130,23 +155,37 @@ def temperature_for_enthalpy(
     strict: bool,
     warnings: list[str],
     what: str = "outlet",
+    first_start: float | None = None,
+    total: float | None = None,
 ) -> float:
     """Temperature at which ``flows`` carry enthalpy ``target`` (W).
 
-    A zero flow carries no enthalpy: its temperature is ``guess`` (the inlet's) when
-    the target is zero; a non-zero target into a zero flow is an error in a strict
-    pass, and a warning (temperature left at ``guess``) while the recycle iterates.
+    The search starts where the block's search for ``what`` evaluated last (the last
+    pass; its kept molar values make that first step a dot product), else at
+    ``first_start`` if given, else at ``guess``. A zero flow carries no enthalpy: its
+    temperature is ``guess`` (the inlet's) when the target is zero; a non-zero target
+    into a zero flow is an error in a strict pass, and a warning (temperature left at
+    ``guess``) while the recycle iterates. ``total`` is the sum of ``flows`` if the
+    caller has it.
     """
-    if flows.sum() <= 0.0:
+    if total is None:
+        total = sum(flows.tolist())  # Python's sum: cheaper than numpy's for few
+    if not total > 0.0:
         if abs(target) > 0.0:
             detail = f"{target:.6g} W cannot go into the zero flow of the {what}"
             if strict:
                 raise CalculationError(block.name, detail)
             warnings.append(detail)
         return guess
-    start = block.last_temperatures.get(what, guess)
+    kept = _kept(block, what)
+    if kept.T is not None:
+        start = kept.T
+    elif first_start is not None and math.isfinite(first_start):
+        start = first_start
+    else:
+        start = guess
     try:
-        T = float(basis.temperature_from_enthalpy(flows, target, liquid, start))
+        T = float(basis.temperature_from_enthalpy(flows, target, liquid, start, kept))
     except InputError as error:
         if strict:
             raise CalculationError(block.name, f"{what}: {error.allowed}") from None
@@ -157,7 +196,6 @@ def temperature_for_enthalpy(
         limit = T_SEARCH_MIN if target < low else T_SEARCH_MAX
         warnings.append(HeldTemperature(what, target, (low, high), limit, _BRACKET))
         return limit
-    block.last_temperatures[what] = T
     return T
 
 
@@ -174,28 +212,42 @@ def energy_outlet(
     strict: bool,
     warnings: list[str],
     at_set_temperature: SetTemperatureEnthalpy | None = None,
-) -> tuple[float, float, float | None]:
-    """Outlet temperature, duty and outlet enthalpy for the modes "outlet temperature",
-    "adiabatic" and "duty".
+    inlet_heat_capacity: float | None = None,
+) -> tuple[float, float, float | None, float | None]:
+    """Outlet temperature, duty, outlet enthalpy and outlet heat-capacity flow for the
+    modes "outlet temperature", "adiabatic" and "duty".
 
     The duty is the heat added, ``H_out - H_in`` (W); ``enthalpy_in`` is the inlet's.
     The outlet enthalpy (W) is None when the temperature search was held at its limit
-    (the outlet then does not carry the enthalpy asked for).
+    (the outlet then does not carry the enthalpy asked for); its heat-capacity flow
+    (W/K) is known at a set temperature only. ``inlet_heat_capacity``, when the
+    outlet has the inlet's flows and that is known, starts a block's first search at
+    ``T_in + duty / Cp_in``.
     """
     liquid = phase == "liquid"
     if mode == "outlet temperature":
         if at_set_temperature is not None:
-            out = at_set_temperature.flow(flows, liquid)
+            out, heat_capacity = at_set_temperature.flows(flows, liquid)
         else:
-            out = basis.stream_enthalpy_flow(flows, set_temperature, liquid)
-        return float(set_temperature), out - enthalpy_in, out
+            out, heat_capacity = basis.stream_enthalpy_and_heat_capacity_flow(
+                flows, set_temperature, liquid
+            )
+        return float(set_temperature), out - enthalpy_in, out, heat_capacity
     duty = 0.0 if mode == "adiabatic" else float(set_duty)
     warned = len(warnings)
     target = enthalpy_in + duty
-    T = temperature_for_enthalpy(block, basis, flows, target, liquid, inlet_T, strict, warnings)
-    if flows.sum() <= 0.0:
+    first_start = (
+        inlet_T + duty / inlet_heat_capacity
+        if inlet_heat_capacity is not None and inlet_heat_capacity > 0.0
+        else None
+    )
+    total = sum(flows.tolist())
+    T = temperature_for_enthalpy(
+        block, basis, flows, target, liquid, inlet_T, strict, warnings, "outlet", first_start, total
+    )
+    if not total > 0.0:
         duty, target = 0.0, 0.0
-    return T, duty, (target if len(warnings) == warned else None)
+    return T, duty, (target if len(warnings) == warned else None), None
 
 
 def one_phase(block: CompiledBlock, phase: str, field: str = "phase") -> str:

@@ -22,7 +22,7 @@ from typing import Any
 from model.blocks.base import (
     BlockOutput,
     CompiledBlock,
-    enthalpies,
+    inlet_enthalpy,
     outlet_pressure,
     temperature_for_enthalpy,
 )
@@ -275,7 +275,7 @@ def compute_exchanger(
     hot_in, cold_in = inlets
     hot = _side(block, hot_in, block.hot_phase, block.hot_pressure_drop, "hot outlet")
     cold = _side(block, cold_in, block.cold_phase, block.cold_pressure_drop, "cold outlet")
-    h_hot, h_cold = enthalpies(basis, [hot_in, cold_in])
+    h_hot, h_cold = (inlet_enthalpy(block, basis, s, k) for k, s in enumerate((hot_in, cold_in)))
     warnings: list[str] = []
     duty, hot_T, cold_T = _duty_and_outlet_temperatures(
         block, basis, hot, cold, float(h_hot), float(h_cold), strict, warnings

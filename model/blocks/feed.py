@@ -53,7 +53,9 @@ def feed_flows(specs: dict[str, Any], basis) -> np.ndarray:
 def build_feed(common: dict[str, Any], specs: dict[str, Any], basis) -> CompiledFeed:
     flows = feed_flows(specs, basis)
     state = StreamState(flows, float(specs["T"]), float(specs["P"]), specs.get("phase", "vapor"))
-    state.enthalpy = basis.stream_enthalpy_flow(flows, state.T, state.liquid)  # once a solve
+    state.enthalpy, state.heat_capacity = basis.stream_enthalpy_and_heat_capacity_flow(
+        flows, state.T, state.liquid
+    )  # once a solve
     return CompiledFeed(**common, state=state)
 
 

@@ -18,6 +18,7 @@ from model.blocks.base import (
     SetTemperatureEnthalpy,
     energy_outlet,
     enthalpy,
+    inlet_enthalpy,
     outlet_pressure,
 )
 from model.blocks.result import BlockResult
@@ -66,12 +67,12 @@ def compute_heater(
     if phase in (EQUILIBRIUM, TWO_PHASE):
         return _equilibrium_outlet(block, inlet, P, basis, strict)
     warnings: list[str] = []
-    T, duty, outlet_enthalpy = energy_outlet(
+    T, duty, outlet_enthalpy, heat_capacity = energy_outlet(
         block,
         basis,
         inlet.flows,
         phase,
-        enthalpy(basis, inlet),
+        inlet_enthalpy(block, basis, inlet, 0),
         block.mode,
         block.T,
         block.duty,
@@ -79,8 +80,9 @@ def compute_heater(
         strict,
         warnings,
         block.at_set_temperature,
+        inlet.heat_capacity if phase == inlet.phase else None,
     )
-    outlet = StreamState(inlet.flows, T, P, phase, outlet_enthalpy)
+    outlet = StreamState(inlet.flows, T, P, phase, outlet_enthalpy, None, heat_capacity)
     return BlockOutput({"out": outlet}, BlockResult(duty_W=duty, warnings=warnings))
 
 

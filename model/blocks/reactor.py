@@ -25,6 +25,7 @@ from model.blocks.base import (
     SetTemperatureEnthalpy,
     energy_outlet,
     enthalpy,
+    inlet_enthalpy,
     one_phase,
     outlet_pressure,
 )
@@ -106,13 +107,13 @@ def react(
     its extent is limited to the reactant present, with a warning.
     """
     extents = np.zeros(len(block.labels))
-    scale = max(float(flows.max(initial=0.0)), 1e-300)
+    scale = max(0.0, *flows.tolist(), 1e-300)  # Python's max: cheaper than numpy's for few
     for row in range(len(block.labels)):
         nu = block.stoichiometry[row]
         key = block.key_index[row]
         extent = block.conversion[row] * flows[key] / -nu[key]
         after = flows + extent * nu
-        if np.any(after < -ROUNDING * scale):
+        if after.min() < -ROUNDING * scale:  # (NaN flows: False, as np.any(NaN < x))
             if strict:
                 raise CalculationError(block.name, _shortfall_message(block, row, flows, extent))
             warnings.append(_shortfall_message(block, row, flows, extent))
@@ -145,12 +146,12 @@ def compute_reactor(
             {"out": outlet}, BlockResult(duty_W=duty, values=values, warnings=warnings)
         )
     phase = one_phase(block, block.phase or inlet.phase)
-    T, duty, outlet_enthalpy = energy_outlet(
+    T, duty, outlet_enthalpy, heat_capacity = energy_outlet(
         block,
         basis,
         flows,
         phase,
-        enthalpy(basis, inlet),
+        inlet_enthalpy(block, basis, inlet, 0),
         block.mode,
         block.T,
         block.duty,
@@ -160,7 +161,8 @@ def compute_reactor(
         block.at_set_temperature,
     )
     result = BlockResult(duty_W=duty, values=values, warnings=warnings)
-    return BlockOutput({"out": StreamState(flows, T, P, phase, outlet_enthalpy)}, result)
+    outlet = StreamState(flows, T, P, phase, outlet_enthalpy, None, heat_capacity)
+    return BlockOutput({"out": outlet}, result)
 
 
 def _equilibrium_outlet(

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
@@ -20,6 +20,11 @@ class CompiledSplitter(CompiledBlock):
     fractions: np.ndarray | None
     flow_outlet: int
     flow: float
+    #: "fraction to <port>" per outlet, the names of the results (made once)
+    value_names: tuple[str, ...] = field(default=(), init=False)
+
+    def __post_init__(self) -> None:
+        self.value_names = tuple(f"fraction to {port}" for port in self.outlet_ports)
 
 
 def build_splitter(common: dict[str, Any], specs: dict[str, Any], basis) -> CompiledSplitter:
@@ -63,23 +68,24 @@ def compute_splitter(
     inlet = inlets[0]
     warnings: list[str] = []
     if block.fractions is None:
-        shares = _set_flow_shares(block, float(inlet.flows.sum()), warnings)
+        shares = _set_flow_shares(block, float(inlet.flows.sum()), warnings).tolist()
     else:
-        shares = block.fractions
-    known = inlet.enthalpy  # enthalpy is linear in the flows at one T: it splits too
+        shares = block.fractions.tolist()
+    # enthalpy and heat capacity are linear in the flows at one T: they split too
+    known, capacity, vapor = inlet.enthalpy, inlet.heat_capacity, inlet.vapor_flows
     outlets = {
         port: StreamState(
             inlet.flows * share,
             inlet.T,
             inlet.P,
             inlet.phase,
-            None if known is None else known * float(share),
-            None if inlet.vapor_flows is None else inlet.vapor_flows * share,
+            None if known is None else known * share,
+            None if vapor is None else vapor * share,
+            None if capacity is None else capacity * share,
         )
         for port, share in zip(block.outlet_ports, shares, strict=True)
     }
     values = {
-        f"fraction to {port}": (float(share), "fraction")
-        for port, share in zip(block.outlet_ports, shares, strict=True)
+        name: (share, "fraction") for name, share in zip(block.value_names, shares, strict=True)
     }
     return BlockOutput(outlets, BlockResult(values=values, warnings=warnings))

@@ -347,6 +347,17 @@ class CpTable:
                 enthalpy += coefficient * power / (order + 1.0)
         return enthalpy, heat_capacity
 
+    def molar_values(self, T: float) -> tuple[list[float], list[float]]:
+        """Each component's molar enthalpy (``enthalpy_offset`` plus the integral of Cp
+        from 298.15 K, J/mol) and Cp (J/mol/K) at one temperature, as Python floats in
+        column order: the terms of :meth:`stream_totals` before they are weighted by the
+        flows, so that ``flows @ enthalpy`` is that method's enthalpy flow to rounding.
+
+        A block keeps them for the temperature it found last pass; the next pass starts
+        its search there and the first step costs a dot product.
+        """
+        return _scalar_molar(float(T), self._scalar_terms, self.size)
+
 
 def few_components(flows: np.ndarray) -> bool:
     """True when at most :data:`SCALAR_PATH_LIMIT` components of ``flows`` are non-zero."""
@@ -503,4 +514,37 @@ def _scalar_totals(flows: list[float], T: float, terms: _ScalarTerms) -> tuple[f
             c += c_y2 * y2 + y6 * (c_y8 * y2 + c_q2y6 * q * q)
         enthalpy += flow * h
         heat_capacity += flow * c
+    return enthalpy, heat_capacity
+
+
+def _scalar_molar(T: float, terms: _ScalarTerms, size: int) -> tuple[list[float], list[float]]:
+    """Per-component terms of :func:`_scalar_totals` (every component), column order."""
+    enthalpy = [0.0] * size
+    heat_capacity = [0.0] * size
+    for column, (h_one, c0, c1, c2, c3, c4, i0, i1, i2, i3, i4) in zip(
+        terms.polynomial_columns, terms.polynomial, strict=True
+    ):
+        enthalpy[column] = h_one + T * (i0 + T * (i1 + T * (i2 + T * (i3 + T * i4))))
+        heat_capacity[column] = c0 + T * (c1 + T * (c2 + T * (c3 + T * c4)))
+    T_inverse = 1.0 / T
+    T_inverse_squared = T_inverse * T_inverse
+    exp, log = math.exp, math.log
+    for column, component in zip(terms.trc_columns, terms.trc, strict=True):
+        (a7, a6, minus_a2, h_one, h_T, h_exp, c_one, c_exp, h_log, h_ratio,
+         h1, h2, h3, h4, h5, h6, h7, c_y2, c_y8, c_q2y6) = component  # fmt: skip
+        exponent = minus_a2 * T_inverse
+        exponential = exp(exponent) if exponent < _EXP_OVERFLOW else math.inf  # as numpy
+        h = h_one + h_T * T + h_exp * exponential
+        c = c_one + c_exp * exponential * T_inverse_squared
+        if T > a7:
+            q = 1.0 / (T + a6)
+            y = (T - a7) * q
+            one_minus_y = 1.0 - y
+            y2 = y * y
+            y6 = y2 * y2 * y2
+            h += h_log * log(one_minus_y) + h_ratio * y / one_minus_y
+            h += y * (h1 + y * (h2 + y * (h3 + y * (h4 + y * (h5 + y * (h6 + y * h7))))))
+            c += c_y2 * y2 + y6 * (c_y8 * y2 + c_q2y6 * q * q)
+        enthalpy[column] = h
+        heat_capacity[column] = c
     return enthalpy, heat_capacity

@@ -21,7 +21,7 @@ import numpy as np
 
 from model.errors import InputError
 from model.properties.components import Component
-from model.properties.cp_correlations import CpTable, few_components
+from model.properties.cp_correlations import SCALAR_PATH_LIMIT, CpTable, few_components
 from model.properties.temperature_range import T_SEARCH_MAX, T_SEARCH_MIN
 
 WATSON_EXPONENT = 0.38
@@ -154,6 +154,7 @@ class PropertyBasis:
         enthalpy_flow: float,
         liquid: bool,
         T_guess: float = 298.15,
+        kept: KeptMolarValues | None = None,
     ) -> float:
         """Temperature at which a stream has the given enthalpy flow.
 
@@ -173,6 +174,11 @@ class PropertyBasis:
             Phase of the stream.
         T_guess
             Starting temperature, K; a good guess saves iterations.
+        kept
+            A block's :class:`KeptMolarValues`: every evaluation then computes each
+            component's molar enthalpy and Cp (the same cost) and ``kept`` keeps the
+            last, so that an evaluation at that temperature in a later call (the next
+            pass starts there) is a dot product with the flows.
 
         Returns
         -------
@@ -184,18 +190,26 @@ class PropertyBasis:
         InputError
             Bad flows, or no temperature in [10 K, 6000 K] gives that enthalpy flow.
         """
-        flows = self._checked_flows(flows)
+        flows, total = self._checked_flows(flows)
         if not math.isfinite(enthalpy_flow):
             raise InputError("enthalpy_flow", enthalpy_flow, "a finite enthalpy flow in W")
         guess = float(T_guess) if math.isfinite(T_guess) else 298.15
-        if not flows.sum() > 0.0:
+        if not total > 0.0:
             if enthalpy_flow == 0.0:
                 return guess
             raise InputError("enthalpy_flow", enthalpy_flow, "0 W for a stream with no flow")
 
-        def residual(T: float) -> tuple[float, float]:
-            enthalpy, heat_capacity = self._stream_enthalpy_and_heat_capacity(flows, T, liquid)
-            return enthalpy - enthalpy_flow, heat_capacity
+        if kept is None:
+
+            def residual(T: float) -> tuple[float, float]:
+                enthalpy, heat_capacity = self._stream_enthalpy_and_heat_capacity(flows, T, liquid)
+                return enthalpy - enthalpy_flow, heat_capacity
+
+        else:
+
+            def residual(T: float) -> tuple[float, float]:
+                enthalpy, heat_capacity = (kept.molar(self, T, liquid) @ flows).tolist()
+                return enthalpy - enthalpy_flow, heat_capacity
 
         root = _bracketed_newton(residual, guess, T_SEARCH_MIN, T_SEARCH_MAX)
         if root is None:
@@ -311,14 +325,26 @@ class PropertyBasis:
             enthalpy, heat_capacity = enthalpy - heat, heat_capacity - slope
         return np.asarray(enthalpy, dtype=float), np.asarray(heat_capacity, dtype=float)
 
-    def remember_stream(
-        self, flows: np.ndarray, T: float, liquid: bool, enthalpy: float, capacity: float
-    ) -> None:
-        """Tell the single-stream path a stream's enthalpy and heat-capacity flows at T,
-        computed elsewhere (a set temperature's dot product), so the next block's first
-        look at that stream costs nothing."""
-        flows = np.asarray(flows, dtype=float)
-        self._remember((float(T), bool(liquid), flows.tobytes()), enthalpy, capacity)
+    def molar_values(self, T: float, liquid: bool) -> np.ndarray:
+        """Each component's molar enthalpy (row 0, J/mol, formation basis) and heat
+        capacity (row 1, J/mol/K, less d(dHvap)/dT for a liquid) at ``T``: a (2, n) array
+        whose product with a stream's flows gives its enthalpy and heat-capacity flows,
+        equal to :meth:`stream_enthalpy_and_heat_capacity_flow` to rounding.
+
+        Python floats per component for up to ``SCALAR_PATH_LIMIT`` components (numpy's
+        cost per call outweighs its speed for so few), the vectorised form for more.
+        """
+        T = float(T)
+        if len(self.names) > SCALAR_PATH_LIMIT:
+            return np.stack(self.at_temperature(T, liquid))
+        enthalpy, heat_capacity = self._cp.molar_values(T)
+        if liquid:
+            for column, (scale, Tc) in enumerate(self._watson_terms):
+                if T < Tc:
+                    heat = scale * (1.0 - T / Tc) ** WATSON_EXPONENT
+                    enthalpy[column] -= heat
+                    heat_capacity[column] += WATSON_EXPONENT * heat / (Tc - T)
+        return np.array((enthalpy, heat_capacity))
 
     def _stream_vaporization(self, flows: np.ndarray, T: float) -> tuple[float, float]:
         """Flow-weighted Watson heat of vaporization (W) and its T derivative (W/K).
@@ -342,18 +368,22 @@ class PropertyBasis:
         heat_flow, ratio_flow = (terms @ flows).tolist()
         return heat_flow, -WATSON_EXPONENT * ratio_flow
 
-    def _checked_flows(self, flows: np.ndarray) -> np.ndarray:
-        """Flows of one stream: finite, not negative (round-off of -1e-12 of the total is 0)."""
+    def _checked_flows(self, flows: np.ndarray) -> tuple[np.ndarray, float]:
+        """Flows of one stream: finite, not negative (round-off of -1e-12 of the total is
+        0); and their total, mol/s."""
         flows = np.asarray(flows, dtype=float)
-        if flows.shape == (len(self.names),) and flows.min() >= 0.0:
-            if math.isfinite(flows.sum()):
-                return flows  # the usual case: two reductions
+        if flows.shape == (len(self.names),):
+            values = flows.tolist()  # few components: Python's min and sum are cheaper
+            total = sum(values)
+            if min(values) >= 0.0 and math.isfinite(total):
+                return flows, total  # the usual case
         if flows.shape != (len(self.names),) or not np.all(np.isfinite(flows)):
             raise InputError("flows", flows, f"{len(self.names)} finite component flows")
         # round-off from upstream subtractions (a few ulps of the total) counts as 0
         if np.any(flows < -_ROUND_OFF * np.abs(flows).sum()):
             raise InputError("flows", flows, "component flows of 0 mol/s or more")
-        return np.maximum(flows, 0.0)
+        flows = np.maximum(flows, 0.0)
+        return flows, float(flows.sum())
 
     def _stoichiometry(self, stoichiometry: np.ndarray) -> np.ndarray:
         nu = np.asarray(stoichiometry, dtype=float)
@@ -367,6 +397,31 @@ class PropertyBasis:
         if flows is None:
             return np.ones(len(self.names), dtype=bool)
         return np.asarray(flows, dtype=float) > 0.0
+
+
+class KeptMolarValues:
+    """Each component's molar enthalpy and heat capacity (:meth:`PropertyBasis.
+    molar_values`) at the temperature and phase asked last, kept from pass to pass by a
+    block: for its temperature searches (the next pass starts where the last one
+    evaluated, :attr:`T`) and for inlets that carry no enthalpy (a tear stream whose
+    temperature stays put while its flows move). A request at that temperature again
+    costs a dot product with the flows instead of the correlations.
+    """
+
+    __slots__ = ("T", "liquid", "values")
+
+    def __init__(self) -> None:
+        self.T: float | None = None
+        self.liquid = False
+        self.values: np.ndarray | None = None
+
+    def molar(self, basis: PropertyBasis, T: float, liquid: bool) -> np.ndarray:
+        """The (2, n) molar values at ``T``: the kept ones if at that T and phase, else
+        new ones (kept from now on)."""
+        if T != self.T or liquid != self.liquid or self.values is None:
+            self.values = basis.molar_values(T, liquid)
+            self.T, self.liquid = T, liquid
+        return self.values
 
 
 def _column(T: np.ndarray) -> np.ndarray:

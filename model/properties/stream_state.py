@@ -44,6 +44,10 @@ class StreamState:
     enthalpy: float | None = field(default=None, compare=False, repr=False)
     #: Component flows of the vapor phase (mol/s) of a two-phase stream; None otherwise.
     vapor_flows: np.ndarray | None = field(default=None, compare=False, repr=False)
+    #: d(enthalpy flow)/dT (W/K) when the block that made this state knows it (a set
+    #: temperature's); a block downstream starts its first temperature search from
+    #: it. None: not known.
+    heat_capacity: float | None = field(default=None, compare=False, repr=False)
 
     def __post_init__(self) -> None:
         # No copy when given a float array: blocks pass their inlet's flows on (a heater's
@@ -147,7 +151,9 @@ class StreamState:
     def copy(self) -> StreamState:
         """An independent copy (the flow array is copied too)."""
         vapor = None if self.vapor_flows is None else self.vapor_flows.copy()
-        return StreamState(self.flows.copy(), self.T, self.P, self.phase, self.enthalpy, vapor)
+        return StreamState(
+            self.flows.copy(), self.T, self.P, self.phase, self.enthalpy, vapor, self.heat_capacity
+        )
 
 
 def _is_finite_number(value: object) -> bool:

@@ -4,11 +4,13 @@ A pass asks for one stream's enthalpy at a time. That path sums the TRC ideal-ga
 correlation term by term (Python floats for few components, numpy rows for many)
 instead of calling the bit-exact vectorised functions, and remembers its last few
 results, so that a block's inlet is not evaluated again right after the block upstream
-evaluated it as its outlet. These tests pin each of those down: agreement with
-chemicals' ``TRCCp`` / ``TRCCp_integral`` (Kabo & Roganov 1994, chemicals 1.5.2) and
-with the vectorised path, no stale remembered values, a temperature solve converged to
-rounding, and the number of correlation evaluations of a block (counts, not timings;
-the timings are in tests/benchmarks).
+evaluated it as its outlet; and a block keeps each component's molar enthalpy and Cp
+at the temperature its search evaluated last (and at an inlet's temperature), so that
+the next pass's first step there is a dot product. These tests pin each of those down:
+agreement with chemicals' ``TRCCp`` / ``TRCCp_integral`` (Kabo & Roganov 1994,
+chemicals 1.5.2) and with the vectorised path, no stale remembered values, a
+temperature solve converged to rounding, and the number of correlation evaluations of
+a block (counts, not timings; the timings are in tests/benchmarks).
 """
 
 from __future__ import annotations
@@ -22,7 +24,7 @@ from model.flowsheet.document import Flowsheet
 from model.flowsheet.spec_values import ComponentAmounts, TypedQuantity
 from model.properties.components import lookup_component
 from model.properties.cp_correlations import SCALAR_PATH_LIMIT, TRC, CpCorrelation, CpTable
-from model.properties.enthalpy import PropertyBasis
+from model.properties.enthalpy import KeptMolarValues, PropertyBasis
 from model.properties.stream_state import StreamState
 from model.solve.compile import compile_flowsheet
 
@@ -130,16 +132,60 @@ def test_temperature_solve_lands_on_the_root_to_rounding():
         assert found == pytest.approx(T, abs=1e-11, rel=1e-13)
 
 
+@pytest.mark.parametrize("size", [3, 30])  # the Python-float path, and numpy's past 24
+def test_molar_values_weighted_by_flows_match_the_vectorised_stream_enthalpy(size):
+    names = [
+        "methane", "water", "nitrogen", "ethane", "propane", "n-butane", "isobutane",
+        "n-pentane", "n-hexane", "n-heptane", "n-octane", "ethylene", "propylene", "benzene",
+        "toluene", "o-xylene", "cyclohexane", "methanol", "ethanol", "acetone", "hydrogen",
+        "oxygen", "argon", "carbon monoxide", "carbon dioxide", "ammonia", "hydrogen sulfide",
+        "sulfur dioxide", "acetic acid", "dimethyl ether",
+    ][:size]  # fmt: skip
+    basis = PropertyBasis([lookup_component(name) for name in names])
+    flows = np.random.default_rng(7).uniform(0.1, 3.0, size)
+    for T, liquid in ((250.0, True), (400.0, False), (1300.0, False), (330.0, True)):
+        enthalpy, heat_capacity = basis.molar_values(T, liquid) @ flows
+        # the vectorised forms follow chemicals' TRCCp / TRCCp_integral operation by
+        # operation; the molar values regroup the same terms: equal to rounding
+        assert enthalpy == pytest.approx(
+            basis.enthalpy_flow(flows[None, :], [T], [liquid])[0], rel=1e-12
+        )
+        assert heat_capacity == pytest.approx(
+            basis.heat_capacity_flow(flows[None, :], [T], [liquid])[0], rel=1e-12
+        )
+
+
+def test_temperature_solve_with_kept_molar_values_lands_on_the_root_to_rounding():
+    # as from pass to pass: one KeptMolarValues for a stream whose flows and target move
+    basis = PropertyBasis([lookup_component(n) for n in ("methane", "water", "nitrogen")])
+    rng = np.random.default_rng(4)
+    kept = KeptMolarValues()
+    for _ in range(200):
+        flows = rng.uniform(0.0, 5.0, 3)
+        liquid = bool(rng.uniform() < 0.3)
+        T = rng.uniform(200.0, 500.0) if liquid else rng.uniform(60.0, 3000.0)
+        target = basis.enthalpy_flow(flows[None, :], [T], [liquid])[0]
+        start = kept.T if kept.T is not None else 298.15
+        found = basis.temperature_from_enthalpy(flows, target, liquid, start, kept)
+        assert found == pytest.approx(T, abs=1e-11, rel=1e-13)
+
+
 def _count_evaluations(monkeypatch) -> list[int]:
-    """Count the correlation evaluations of the single-stream path (remembered ones free)."""
+    """Count the correlation evaluations of the single-stream path, weighted by the flows
+    or per component (remembered ones and dot products with kept ones are free)."""
     count = [0]
-    real = CpTable.stream_totals
+    totals, molar = CpTable.stream_totals, CpTable.molar_values
 
-    def counted(table, flows, T):
+    def counted_totals(table, flows, T):
         count[0] += 1
-        return real(table, flows, T)
+        return totals(table, flows, T)
 
-    monkeypatch.setattr(CpTable, "stream_totals", counted)
+    def counted_molar(table, T):
+        count[0] += 1
+        return molar(table, T)
+
+    monkeypatch.setattr(CpTable, "stream_totals", counted_totals)
+    monkeypatch.setattr(CpTable, "molar_values", counted_molar)
     return count
 
 
@@ -162,19 +208,43 @@ def _compiled(*specs: tuple[str, str, dict]):
     return compile_flowsheet(sheet, basis), basis
 
 
-def test_duty_heater_after_a_set_temperature_heater_reuses_both_evaluations(monkeypatch):
+def test_duty_heater_after_a_set_temperature_heater_starts_from_its_heat_capacity(monkeypatch):
     compiled, basis = _compiled(
         ("Heater", "H1", {"T": TypedQuantity(400.0, "K")}),
         ("Heater", "H2", {"mode": "duty", "duty": TypedQuantity(5.0, "kW")}),
     )
     inlet = StreamState(np.array([2.0, 1.0, 0.0]), 320.0, 2e5, "vapor")
     heated = compute_block(compiled.blocks["H1"], [inlet], basis).outlets["out"]
+    assert heated.enthalpy is not None and heated.heat_capacity is not None
     evaluations = _count_evaluations(monkeypatch)
     outlet = compute_block(compiled.blocks["H2"], [heated], basis).outlets["out"]
-    # H2's inlet enthalpy and its T solve's first step are H1's outlet, already known;
-    # Newton from 400 K to about 456 K then needs three more evaluations
+    # H2's inlet enthalpy and heat capacity are H1's, carried on the state: Newton starts
+    # at 400 K + 5 kW / Cp (about 456 K) and needs three evaluations (the last one only
+    # confirms the step is below 1e-9 K), where from 400 K it needed four
     assert evaluations == [3]
     expected = basis.stream_enthalpy_flow(heated.flows, 400.0, False) + 5000.0
     assert basis.stream_enthalpy_flow(outlet.flows, outlet.T, False) == pytest.approx(
+        expected, rel=1e-13
+    )
+
+
+def test_next_pass_starts_where_the_search_evaluated_last(monkeypatch):
+    compiled, basis = _compiled(("Heater", "H", {"mode": "duty", "duty": TypedQuantity(5.0, "kW")}))
+    inlet = StreamState(np.array([2.0, 1.0, 0.0]), 320.0, 2e5, "vapor")
+    first = compute_block(compiled.blocks["H"], [inlet], basis).outlets["out"]
+    evaluations = _count_evaluations(monkeypatch)
+    again = compute_block(compiled.blocks["H"], [inlet], basis).outlets["out"]
+    # the same inlet: the kept molar values at the last point give the step (below
+    # 1e-9 K) by a dot product; no evaluation of the correlations
+    assert evaluations == [0]
+    assert again.T == pytest.approx(first.T, abs=1e-9)
+    moved = StreamState(np.array([2.0, 1.001, 0.0]), 320.0, 2e5, "vapor")
+    outlet = compute_block(compiled.blocks["H"], [moved], basis).outlets["out"]
+    # a recycle whose flows moved at the same T (as a tear's from a set temperature): the
+    # inlet's enthalpy (this state carries none) comes from the molar values the block
+    # kept at 320 K, the search's first step is still free, then Newton needs two more
+    assert evaluations == [2]
+    expected = basis.stream_enthalpy_flow(moved.flows, 320.0, False) + 5000.0
+    assert basis.stream_enthalpy_flow(moved.flows, outlet.T, False) == pytest.approx(
         expected, rel=1e-13
     )
