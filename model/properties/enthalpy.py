@@ -26,6 +26,13 @@ from model.properties.temperature_range import T_SEARCH_MAX, T_SEARCH_MIN
 
 WATSON_EXPONENT = 0.38
 _T_TOLERANCE = 1e-9  # K, step size at which the temperature solve stops
+#: Bound on |dCp/dT| / Cp (1/K) of one phase's enthalpy: a Newton step dT from a point
+#: leaves an error of about 1/2 (Cp'/Cp) dT^2 in T, so a step with
+#: 1/2 _CURVATURE dT^2 <= _T_TOLERANCE is taken without another evaluation to confirm
+#: it. Ideal-gas and liquid correlations stay below 0.1/K away from the critical point;
+#: 10/K leaves room for a liquid within a kelvin or two of it.
+_CURVATURE = 10.0
+_CONFIRMED_STEP = math.sqrt(2.0 * _T_TOLERANCE / _CURVATURE)
 _MAX_ITERATIONS = 200
 _RECENT_SIZE = 8  # single-stream evaluations remembered (see _stream_enthalpy_and_heat_capacity)
 _ROUND_OFF = 1e-12  # relative to the total flow: negative flows this small are zero
@@ -464,8 +471,8 @@ def _bracketed_newton(
         else:
             high, f_high = x, f
         x_new = x - f / derivative if derivative > 0.0 and math.isfinite(derivative) else math.nan
-        if abs(x_new - x) <= _T_TOLERANCE:
-            return x_new
+        if abs(x_new - x) <= _CONFIRMED_STEP and low <= x_new <= high:
+            return x_new  # its linearisation error is below the tolerance (_CURVATURE)
         if not low < x_new < high:
             if f_low is None:
                 f_low = residual(low)[0]

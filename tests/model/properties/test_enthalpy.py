@@ -10,6 +10,7 @@ import numpy as np
 import pytest
 from chemicals.heat_capacity import TRC_gas_data, TRCCp, TRCCp_integral
 from chemicals.phase_change import Watson
+from scipy.optimize import brentq
 
 from model.errors import InputError
 from model.properties.components import CpCorrelation, define_component, lookup_component
@@ -370,3 +371,23 @@ def test_hand_defined_polynomial_component_mixes_with_library_components():
     flows = np.array([1.0, 1.0])
     target = basis.stream_enthalpy_flow(flows, 700.0, False)
     assert basis.temperature_from_enthalpy(flows, target, False) == pytest.approx(700.0)
+
+
+@pytest.mark.parametrize(("T", "liquid"), [(500.0, False), (20.0, False), (640.0, True)])
+def test_an_unconfirmed_last_newton_step_lands_within_the_tolerance(basis, T, liquid):
+    # A search started a few microkelvin from the root takes one Newton step and stops
+    # without evaluating again (model.properties.enthalpy._CONFIRMED_STEP): the root it
+    # returns must still be within the 1e-9 K tolerance of scipy's brentq on the same
+    # enthalpy (xtol 1e-12), also for a liquid near water's Tc, where Cp rises steeply.
+    flows = np.linspace(0.2, 1.2, len(basis))
+    target = basis.stream_enthalpy_flow(flows, T, liquid)
+    reference = brentq(
+        lambda t: basis.stream_enthalpy_flow(flows, t, liquid) - target,
+        T - 1.0,
+        T + 1.0,
+        xtol=1e-12,
+        rtol=4 * np.finfo(float).eps,
+    )
+    for offset in (-4e-6, 4e-6):
+        found = basis.temperature_from_enthalpy(flows, target, liquid, T + offset)
+        assert abs(found - reference) <= 1e-9
