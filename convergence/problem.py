@@ -95,7 +95,9 @@ def _bound_vector(problem: FixedPointProblem, size: int) -> np.ndarray:
             "lower_bound", problem.lower_bound, f"a number or a vector of {size} numbers"
         ) from None
     if np.any(np.isnan(vector) | (vector == np.inf)):
-        raise ConvergenceInputError("lower_bound", problem.lower_bound, "numbers below +inf")
+        raise ConvergenceInputError(
+            "lower_bound", problem.lower_bound, "finite numbers (or -inf: no bound) only"
+        )
     return vector
 
 
