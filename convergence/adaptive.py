@@ -38,8 +38,9 @@ AGREEMENT = 0.2
 #: chain of loops still filling up, inflows rising from upstream look like slopes above
 #: 1 (our generated chains of 10 to 100 loops diverge when those are granted).
 DRIFT_RATIO = 1.25
-#: Widest bounds adaptation may reach (q = -200 is a slope of 0.995; q = 20 of 1.05).
-Q_MIN_LIMIT = -200.0
+#: Widest bounds adaptation may reach (q = -2000 is a slope of 0.9995: a single loop
+#: recycling 99.9 % wants q = -999; q = 20 a slope of 1.05).
+Q_MIN_LIMIT = -2000.0
 Q_MAX_LIMIT = 20.0
 
 

@@ -49,7 +49,8 @@ class TearDiagnosis:
         already do.
     blocked_by_bounds
         ``suggested_q`` lies outside the q bounds in force (the settings' bounds as the
-        run's adaptive bounds last widened them, :func:`bounds_in_force`).
+        run's adaptive bounds last widened them, :func:`bounds_in_force`) and the tear's
+        last step was not a dominant-mode step (which the bounds do not limit).
     advice
         The above in plain words.
     widened_by_run
@@ -93,19 +94,31 @@ def _residual_ratio(history: ConvergenceHistory, tear: str) -> float:
     return float((residuals[-1] / residuals[0]) ** (1.0 / (residuals.size - 1)))
 
 
+def _last_step(history: ConvergenceHistory, tear: str) -> tuple[str, float]:
+    """The kind of the tear's last step (``"direct"``, ``"accelerated"``, ``"dominant
+    mode"``, ``"quasi-Newton"`` or ``"none"``) and, for an accelerated one, its median q."""
+    for record in reversed(history.records):
+        if record.step in ("direct", "fallback"):
+            return "direct", math.nan
+        if record.took_mode_step(tear):
+            return "dominant mode", math.nan
+        if record.step in ("accelerated", "dominant mode"):
+            return "accelerated", record.q[tear].median
+        if record.step == "quasi-Newton":
+            return "quasi-Newton", math.nan
+    return "none", math.nan
+
+
 def _rate(history: ConvergenceHistory, tear: str, slope: float) -> float:
     """Error factor per iteration of the last direct or accelerated step: q + (1 - q) s.
 
-    On a quasi-Newton run, or with no slope, it is unknown (nan).
+    After a quasi-Newton or dominant-mode step, or with no slope, it is unknown (nan).
     """
-    for record in reversed(history.records):
-        if record.step in ("direct", "fallback"):
-            return slope
-        if record.step == "accelerated":
-            q = record.q[tear].median
-            return q + (1.0 - q) * slope
-        if record.step in ("quasi-Newton", "dominant mode"):
-            return math.nan
+    kind, q = _last_step(history, tear)
+    if kind == "accelerated":
+        return q + (1.0 - q) * slope
+    if kind in ("quasi-Newton", "dominant mode"):
+        return math.nan
     return slope
 
 
@@ -164,6 +177,7 @@ def _advice(
     settings: SettingsSnapshot,
     in_force: tuple[float, float],
     method: str = "wegstein",
+    mode_step: bool = False,
 ) -> str:
     if not math.isfinite(slope):
         return "unknown: too few iterations (or steps too small) to estimate a slope"
@@ -183,6 +197,18 @@ def _advice(
             f"{settings.q_max:g}])"
             if widened
             else f"[{low:g}, {high:g}]"
+        )
+    if mode_step:
+        if q > high:
+            bound = f"q_max = {high:g}"
+            wider = f"q_max = {max(bounds[1], suggested_bounds(q, low, high)[1]):g}"
+        else:
+            bound = f"q_min = {low:g}"
+            wider = f"q_min = {min(bounds[0], suggested_bounds(q, low, high)[0]):g}"
+        return (
+            f"{head}: q ≈ {_format_q(q)} would help; the run's dominant-mode steps, which "
+            f"the q bounds do not limit, went past {bound} (for Wegstein's own steps, try "
+            f"{wider})"
         )
     if q > high:
         return (
@@ -215,7 +241,9 @@ def _diagnose_one(
         q = slope / (slope - 1.0) if slope != 1.0 else -math.inf
     in_force = bounds_in_force(history, settings)
     uses_bounds = method not in _METHOD_NAMES
-    blocked = bool(uses_bounds and math.isfinite(slope) and not in_force[0] <= q <= in_force[1])
+    mode_step = _last_step(history, tear)[0] == "dominant mode"
+    outside = bool(uses_bounds and math.isfinite(slope) and not in_force[0] <= q <= in_force[1])
+    blocked = outside and not mode_step
     bounds = (
         suggested_bounds(q, settings.q_min, settings.q_max)
         if uses_bounds
@@ -229,11 +257,13 @@ def _diagnose_one(
         suggested_q=q,
         suggested_bounds=bounds,
         blocked_by_bounds=blocked,
-        advice=_advice(pattern, converging, slope, q, bounds, settings, in_force, method),
+        advice=_advice(
+            pattern, converging, slope, q, bounds, settings, in_force, method, mode_step
+        ),
         widened_by_run=bool(
             uses_bounds
             and math.isfinite(slope)
-            and not blocked
+            and not outside
             and not settings.q_min <= q <= settings.q_max
         ),
         residual_ratio=ratio,

@@ -103,6 +103,10 @@ class IterationRecord:
         The widest q bounds a step of this iteration used when adaptive bounds had
         widened them beyond the settings' (lowest q_min, highest q_max over the
         variables); ``None`` when the settings' bounds were used.
+    mode_tears
+        The tears that took the dominant-mode step at this iteration (empty in records
+        written before it existed: there a ``"dominant mode"`` step counts for every
+        tear, see :meth:`took_mode_step`).
     """
 
     iteration: int
@@ -116,6 +120,11 @@ class IterationRecord:
     worst_variable: str = ""
     estimated_errors: dict[str, float] = field(default_factory=dict)
     q_bounds: tuple[float, float] | None = None
+    mode_tears: tuple[str, ...] = ()
+
+    def took_mode_step(self, tear: str) -> bool:
+        """Whether ``tear`` took the dominant-mode step at this iteration."""
+        return self.step == "dominant mode" and (tear in self.mode_tears or not self.mode_tears)
 
     @property
     def largest_residual(self) -> float:
@@ -158,6 +167,7 @@ def _record_to_dict(record: IterationRecord) -> dict[str, Any]:
         "worst_variable": record.worst_variable,
         "estimated_errors": dict(record.estimated_errors),
         "q_bounds": None if record.q_bounds is None else list(record.q_bounds),
+        "mode_tears": list(record.mode_tears),
     }
 
 
@@ -181,6 +191,7 @@ def _record_from_dict(
             tear: float(value) for tear, value in data.get("estimated_errors", {}).items()
         },
         q_bounds=None if data.get("q_bounds") is None else tuple(map(float, data["q_bounds"])),
+        mode_tears=tuple(str(tear) for tear in data.get("mode_tears", [])),
     )
 
 

@@ -20,7 +20,7 @@ class Step:
     small for a slope) and ``None`` otherwise. ``note`` is an event worth recording
     (a restart); ``bounds_note`` says how adaptive bounds widened at this step, and
     ``q_low``/``q_high`` are the per-variable bounds q was clipped to (``None``: the
-    settings' bounds).
+    settings' bounds). ``mode_tears`` names the tears that took the dominant-mode step.
     """
 
     x_new: np.ndarray
@@ -32,6 +32,7 @@ class Step:
     bounds_note: str | None = None
     q_low: np.ndarray | None = None
     q_high: np.ndarray | None = None
+    mode_tears: tuple[str, ...] = ()
 
 
 @dataclass

@@ -202,6 +202,7 @@ class _Run:
             worst_variable=self.layout.name_of(largest_index),
             estimated_errors=estimated_errors,
             q_bounds=_q_bounds(step),
+            mode_tears=() if step is None else step.mode_tears,
         )
 
     def _finish(

@@ -10,7 +10,7 @@ import numpy as np
 
 from convergence.adaptive import BoundsAdapter
 from convergence.coupling import DominantSlopeQ
-from convergence.modes import DominantModes
+from convergence.modes import PARALLEL, DominantModes
 from convergence.points import Evaluated, Step
 from convergence.problem import TearLayout
 from convergence.settings import SettingsSnapshot
@@ -97,6 +97,7 @@ class BoundedWegstein:
         self.coupling = DominantSlopeQ(layout)
         self.modes = DominantModes(layout)
         self.first_residual = np.inf
+        self.first_scaled = np.zeros(layout.size)
 
     def _early(self, point: Evaluated, settings: SettingsSnapshot) -> bool:
         """Accelerate one iteration early: the first step already contracted.
@@ -104,23 +105,35 @@ class BoundedWegstein:
         With ``early_acceleration`` and two direct steps, iteration 2 is accelerated when
         its largest scaled residual is below :data:`EARLY_CONTRACTION` times the first's:
         a loop that the first direct step brought much closer to its fixed point has
-        slopes that one step already measures. A loop whose first step contracted less
-        (a slow start, or direct substitution diverging) keeps both direct steps, so
-        that the second slope estimate confirms the first.
+        slopes that one step already measures. It is also accelerated when the second
+        residual is parallel to the first (scaled cosine above
+        :data:`~convergence.modes.PARALLEL`): the first step's g change lay along the step,
+        so the step is a mode of the map and one step measures its eigenvalue (every
+        one-variable loop, the energy recycles and oscillating ethylene loops of
+        tests/benchmarks/recycle_cases.py; the fixed-purge loop whose direct
+        substitution diverges has cosine 0.95 and keeps both). A loop whose first step
+        contracted less and was not along a mode keeps both direct steps, so that the
+        second slope estimate confirms the first.
         """
         if not (settings.early_acceleration and settings.direct_steps == 2):
             return False
         if point.iteration != 2:
             return False
-        largest = float(np.max(np.abs(point.fx) / point.scale))
-        return largest < EARLY_CONTRACTION * self.first_residual
+        scaled = point.fx / point.scale
+        largest = float(np.max(np.abs(scaled)))
+        if largest < EARLY_CONTRACTION * self.first_residual:
+            return True
+        first = self.first_scaled
+        norms = float(np.linalg.norm(scaled) * np.linalg.norm(first))
+        return norms > 0.0 and abs(float(scaled @ first)) > PARALLEL * norms
 
     def next_point(self, point: Evaluated, settings: SettingsSnapshot) -> Step:
         """Direct substitution or an accelerated step, as the settings say."""
         if settings.q_mode != "held":
             self.held_q_raw = None
         if point.step is None:
-            self.first_residual = float(np.max(np.abs(point.fx) / point.scale))
+            self.first_scaled = point.fx / point.scale
+            self.first_residual = float(np.max(np.abs(self.first_scaled)))
             return Step(x_new=point.gx, kind="direct")
         use_dominant = settings.dominant_slope and settings.q_mode == "bounded"
         latest_q = self.coupling.q(point, self._latest_q(point), use_dominant)
@@ -153,6 +166,7 @@ class BoundedWegstein:
             bounds_note=bounds_note,
             q_low=None if low is None else low.copy(),
             q_high=None if high is None else high.copy(),
+            mode_tears=tuple(moved),
         )
 
     def _latest_q(self, point: Evaluated) -> np.ndarray:

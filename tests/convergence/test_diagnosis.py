@@ -95,7 +95,11 @@ def test_following_the_advice_converges_a_diverging_tear():
 
 
 def test_diagnosis_against_other_bounds():
-    result = solve_fixed_point(_linear_tears({"S7": -0.7}), "wegstein", SolverSettings())
+    # Wegstein's own steps only: a dominant-mode step is not limited by the bounds
+    # (test_a_dominant_mode_step_is_not_blocked_by_the_bounds).
+    result = solve_fixed_point(
+        _linear_tears({"S7": -0.7}), "wegstein", SolverSettings(dominant_mode=False)
+    )
     relaxed = diagnose_tears(result.history, SolverSettings(q_max=0.5))
     assert not relaxed["S7"].blocked_by_bounds
     assert "within the q bounds [-5, 0.5]" in relaxed["S7"].advice
@@ -144,3 +148,25 @@ def test_q_advice_only_after_a_wegstein_run(method, name):
     if method == "broyden":
         again = diagnose_tears(result.history, settings)["S2"]
         assert "stops it" not in again.advice
+
+
+def test_a_dominant_mode_step_is_not_blocked_by_the_bounds():
+    # x = 0.9 x + 1: one variable is one mode, so iteration 2 takes the one-mode step
+    # x + f/(1 - s), Wegstein's (1958) q = s/(s - 1) = -9 unclipped, and lands on the
+    # fixed point 10. q_min = -5 did not stop the run: the advice says the mode step went
+    # past it and what Wegstein's own steps would need; no bounds are to be applied.
+    problem = FixedPointProblem(lambda x: 0.9 * x + 1.0, np.array([1.0]), {"S1": slice(0, 1)})
+    result = solve_fixed_point(problem, "wegstein", SolverSettings(tolerance=1e-10))
+    assert [record.step for record in result.history.records] == [
+        "direct",
+        "dominant mode",
+        "none",
+    ]
+    assert result.history.records[1].mode_tears == ("S1",)
+    assert result.x[0] == pytest.approx(10.0, rel=1e-14)
+    diagnosis = result.diagnosis["S1"]
+    assert not diagnosis.blocked_by_bounds and not diagnosis.widened_by_run
+    assert "dominant-mode steps, which the q bounds do not limit, went past q_min = -5" in (
+        diagnosis.advice
+    )
+    assert "try q_min = -12" in diagnosis.advice

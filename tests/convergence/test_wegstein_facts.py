@@ -192,16 +192,22 @@ def test_early_acceleration_after_one_direct_step_that_contracts():
     g, fixed_point = _affine([0.3], [1.0])
     problem = FixedPointProblem(g=g, x0=np.array([0.0]), tear_slices={"S1": slice(0, 1)})
     early = solve_fixed_point(problem, "wegstein", SolverSettings(tolerance=1e-12))
-    assert [r.step for r in early.history.records] == ["direct", "accelerated", "none"]
+    # (One variable is one mode: the step taken is the one-mode step, which for one
+    # variable is Wegstein's own x + f/(1 - s), not clipped to the bounds.)
+    assert [r.step for r in early.history.records] == ["direct", "dominant mode", "none"]
     np.testing.assert_allclose(early.x, fixed_point, rtol=1e-12)
     late = solve_fixed_point(
         problem, "wegstein", SolverSettings(tolerance=1e-12, early_acceleration=False)
     )
     assert late.iterations == early.iterations + 1
-    # Slope 0.8 from 10 (fixed point 5): scaled residuals 1/10, then 0.8/9, a ratio of
-    # 0.89, so both direct steps are taken.
+    # Slopes 0.8 and 0.3 from (20, 2) (fixed point (5, 1/0.7)): the largest scaled
+    # residual goes from 0.35 to 0.247, a ratio of 0.71, and the second residual is not
+    # parallel to the first (cosine 0.905 in the scaled variables: two modes seen), so
+    # both direct steps are taken.
     slow = FixedPointProblem(
-        g=_affine([0.8], [1.0])[0], x0=np.array([10.0]), tear_slices={"S1": slice(0, 1)}
+        g=_affine([0.8, 0.3], [1.0, 1.0])[0],
+        x0=np.array([20.0, 2.0]),
+        tear_slices={"S1": slice(0, 2)},
     )
     steps = [r.step for r in solve_fixed_point(slow, "wegstein").history.records]
     assert steps[:3] == ["direct", "direct", "accelerated"]

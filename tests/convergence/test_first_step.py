@@ -1,0 +1,89 @@
+"""The first accelerated step: taken at iteration 2 when the first step showed one mode.
+
+Outside references: Wegstein 1958 (CACM 1(6)): for an affine map x -> s x + c the step
+x + (g(x) - x)/(1 - s), q = s/(s - 1), lands on the fixed point c/(1 - s); polykin 0.8
+``fixpoint_wegstein`` (its bounds, q in [-5, 0]) and scipy's ``broyden1`` count the
+passes the default is compared with (issue 14, item 4), run here, not recalled.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from polykin.math import fixpoint_wegstein
+
+from convergence import FixedPointProblem, SolverSettings, solve_fixed_point
+from model.solve.tear_problem import build_tear_problem
+from tests.benchmarks.bench_recycle_methods import METHOD_RUNNERS, TOLERANCE
+from tests.benchmarks.recycle_variants import VARIANTS
+
+
+def _line(slope: float) -> FixedPointProblem:
+    return FixedPointProblem(
+        g=lambda x: slope * x + 1.0, x0=np.array([1.0]), tear_slices={"S1": slice(0, 1)}
+    )
+
+
+@pytest.mark.parametrize("slope", [0.9, 0.99, 0.3, -0.96, -1.5, -3.0])
+def test_a_one_variable_loop_is_exact_at_iteration_two(slope):
+    # One variable is one mode: iteration 2 takes x + f/(1 - s) with s measured by the
+    # first step, which for an affine map is the fixed point 1/(1 - s) (Wegstein 1958).
+    result = solve_fixed_point(_line(slope), "wegstein", SolverSettings(tolerance=1e-12))
+    assert result.converged and result.evaluations == 3
+    assert result.x[0] == pytest.approx(1.0 / (1.0 - slope), rel=1e-12)
+    assert result.history.records[1].step == "dominant mode"
+    # polykin's Wegstein, the same update at its own bounds, needs as many (slope 0.3,
+    # q = -0.43 within them) or more.
+    outside = fixpoint_wegstein(lambda x: slope * x + 1.0, np.array([1.0]), tolx=1e-12)
+    assert result.evaluations <= outside.nfeval
+
+
+def test_switching_the_early_step_off_restores_two_direct_steps():
+    result = solve_fixed_point(_line(0.9), "wegstein", SolverSettings(early_acceleration=False))
+    assert [record.step for record in result.history.records[:3]] == [
+        "direct",
+        "direct",
+        "accelerated",
+    ]
+
+
+def test_the_secant_goes_on_past_the_bounds_while_it_works():
+    # g(x) = 0.95 x + 1 + 0.02 sin x: slope 0.95 + 0.02 cos x, near 0.97 at the fixed
+    # point, q about -30, far below q_min = -5. After the first one-mode step the tear
+    # keeps the secant step while its residual falls fivefold a pass; the fixed point
+    # is checked against scipy's brentq on g(x) - x.
+    from scipy.optimize import brentq
+
+    def g(x):
+        return 0.95 * x + 1.0 + 0.02 * np.sin(x)
+
+    root = brentq(lambda x: g(x) - x, 0.0, 100.0, xtol=1e-14)
+    problem = FixedPointProblem(g=g, x0=np.array([1.0]), tear_slices={"S": slice(0, 1)})
+    result = solve_fixed_point(problem, "wegstein", SolverSettings(tolerance=1e-12))
+    assert result.converged and result.x[0] == pytest.approx(root, rel=1e-10)
+    steps = [record.step for record in result.history.records]
+    assert steps[1] == "dominant mode" and steps.count("dominant mode") >= 2
+    late = solve_fixed_point(
+        problem, "wegstein", SolverSettings(tolerance=1e-12, early_acceleration=False)
+    )
+    assert late.converged and result.evaluations < late.evaluations
+
+
+def _passes(label: str, sheet) -> tuple[int, bool]:
+    passes, converged, _, _ = METHOD_RUNNERS[label](build_tear_problem(sheet).problem, 300)
+    return passes, converged
+
+
+@pytest.mark.parametrize(
+    "variant",
+    ["energy recycle, 10 % bypass", "ethylene, f = 0.65", "isomerisation 1/2, 1/2, 0.8"],
+)
+def test_no_more_passes_than_scipy_broyden1_where_the_early_step_closed_the_gap(variant):
+    # Before the early one-mode step the default took 7, 4 and 6 passes here, one more
+    # than scipy's broyden1 (tests/benchmarks/recycle_variants.py, all to 1e-8).
+    build = VARIANTS[variant][0]
+    with np.errstate(all="ignore"):
+        default, converged = _passes("Wegstein", build())
+        broyden1, outside_converged = _passes("scipy broyden1", build())
+    assert converged and outside_converged
+    assert TOLERANCE == 1e-8 and default <= broyden1
