@@ -87,7 +87,7 @@ def test_no_more_passes_than_scipy_broyden1_where_the_first_steps_closed_the_gap
     # Before the early one-mode step the default took 7, 4 and 6 passes on the first
     # three, one more than scipy's broyden1 (tests/benchmarks/recycle_variants.py, all
     # to 1e-8); the fixed purge, whose coupled tear now keeps the leading-modes step
-    # while its residual falls, took 18 (broyden1: 25).
+    # while its residual falls fivefold a pass, took 18 (broyden1: 25).
     build = VARIANTS[variant][0]
     with np.errstate(all="ignore"):
         default, converged = _passes("Wegstein", build())
