@@ -198,27 +198,19 @@ def _advice(
             if widened
             else f"[{low:g}, {high:g}]"
         )
+    if q > high:
+        bound = f"q_max = {high:g}"
+        wider = f"q_max = {max(bounds[1], suggested_bounds(q, low, high)[1]):g}"
+    else:
+        bound = f"q_min = {low:g}"
+        wider = f"q_min = {min(bounds[0], suggested_bounds(q, low, high)[0]):g}"
     if mode_step:
-        if q > high:
-            bound = f"q_max = {high:g}"
-            wider = f"q_max = {max(bounds[1], suggested_bounds(q, low, high)[1]):g}"
-        else:
-            bound = f"q_min = {low:g}"
-            wider = f"q_min = {min(bounds[0], suggested_bounds(q, low, high)[0]):g}"
         return (
             f"{head}: q ≈ {_format_q(q)} would help; the run's dominant-mode steps, which "
             f"the q bounds do not limit, went past {bound} (for Wegstein's own steps, try "
             f"{wider})"
         )
-    if q > high:
-        return (
-            f"{head}: q ≈ {_format_q(q)} would help; q_max = {high:g} stops it; "
-            f"try q_max = {max(bounds[1], suggested_bounds(q, low, high)[1]):g}"
-        )
-    return (
-        f"{head}: q ≈ {_format_q(q)} would help; q_min = {low:g} stops it; "
-        f"try q_min = {min(bounds[0], suggested_bounds(q, low, high)[0]):g}"
-    )
+    return f"{head}: q ≈ {_format_q(q)} would help; {bound} stops it; try {wider}"
 
 
 def _diagnose_one(

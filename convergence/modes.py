@@ -117,7 +117,8 @@ def _quotient(step: np.ndarray, change: np.ndarray) -> float | None:
     return float(np.dot(change, step)) / size if size > 0.0 else None
 
 
-def _cosine(first: np.ndarray, second: np.ndarray) -> float:
+def cosine(first: np.ndarray, second: np.ndarray) -> float:
+    """|cos| of the angle between two vectors (1 when either is zero)."""
     size = float(np.sqrt(np.dot(first, first) * np.dot(second, second)))
     return abs(float(np.dot(first, second))) / size if size > 0.0 else 1.0
 
@@ -164,7 +165,7 @@ class DominantModes:
         self.pairs: deque[tuple[np.ndarray, np.ndarray]] = deque(maxlen=MEMORY - 1)
         self.residuals: dict[str, float] = {}
         self.coupled: dict[int, bool] = {}
-        self.along_mode: dict[int, int] = {}
+        self.secant: set[int] = set()  # one-variable tears whose last step was the secant
 
     def improve(
         self, point: Evaluated, x_new: np.ndarray, allowed: bool
@@ -210,7 +211,8 @@ class DominantModes:
         ratio: float,
     ) -> np.ndarray | None:
         """The scaled displacement of one tear's dominant-mode step, or None (Wegstein)."""
-        after_mode_step = self.along_mode.pop(part.start, 0)
+        after_secant = part.start in self.secant
+        self.secant.discard(part.start)
         progressing = ratio < PROGRESS
         scale = point.scale[part]
         a_latest, b_latest = point.step[part] / scale, point.g_step[part] / scale
@@ -223,20 +225,20 @@ class DominantModes:
         if not before:
             # The first pair (an early accelerated step): a g change along its step is
             # a mode seen at once; one estimate cannot show a mode that grows.
-            if _cosine(a_latest, b_latest) <= PARALLEL:
+            if cosine(a_latest, b_latest) <= PARALLEL:
                 return None
             return self._along_one_mode(part, f, (a_latest, b_latest), slopes[usable], None, False)
         a_previous, b_previous = before[-1][0][part] / scale, before[-1][1][part] / scale
         steps = np.column_stack([pair[0][part] / scale for pair in before] + [a_latest])
         changes = np.column_stack([pair[1][part] / scale for pair in before] + [b_latest])
-        if _cosine(a_previous, a_latest) > PARALLEL:
+        if cosine(a_previous, a_latest) > PARALLEL:
             one = self._along_one_mode(
                 part,
                 f,
                 (a_latest, b_latest),
                 slopes[usable],
                 (a_previous, b_previous),
-                progressing and after_mode_step == 1,
+                progressing and after_secant,
             )
             if one is None or usable.sum() == 1 or steps.shape[1] < MEMORY:
                 return one
@@ -253,12 +255,11 @@ class DominantModes:
             # stays so (a coupled tear's per-variable slopes can agree for a step by
             # chance; leaving the leading-modes step then cost the 25 mol/s fixed purge
             # 4 passes and isomerisation 0.3, 0.3, 0.6 three). Merely falling is not
-            # enough: a chain of 10 loops solved as one problem then took 86 passes
-            # instead of 37.
+            # enough: a chain of 10 loops solved as one problem then took 88 passes
+            # instead of 39 (tests/benchmarks/bench_parts.py, its "before" column).
             return _leading_modes(f, steps, changes)
         self.coupled[part.start] = coupled
         return None
-        return _leading_modes(f, steps, changes)
 
     def _along_one_mode(
         self,
@@ -275,7 +276,8 @@ class DominantModes:
         step, change = latest
         eigenvalue = float(np.dot(change, step)) / float(np.dot(step, step))
         if moving_slopes.size == 1:
-            # One moving variable: Wegstein's own case; only a damping q is let through.
+            # One moving variable: Wegstein's own case; a damping q, or the secant step
+            # at the first pair and while it works.
             allowed = eigenvalue < 0.0 or (
                 eigenvalue < 1.0 and (previous is None or secant_working)
             )
@@ -297,5 +299,6 @@ class DominantModes:
         if not allowed:
             return None
         self.coupled[part.start] = moving_slopes.size > 1
-        self.along_mode[part.start] = moving_slopes.size
+        if moving_slopes.size == 1:
+            self.secant.add(part.start)
         return _one_mode(f, step, change)

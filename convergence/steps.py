@@ -10,7 +10,7 @@ import numpy as np
 
 from convergence.adaptive import BoundsAdapter
 from convergence.coupling import DominantSlopeQ
-from convergence.modes import PARALLEL, DominantModes
+from convergence.modes import PARALLEL, DominantModes, cosine
 from convergence.points import Evaluated, Step
 from convergence.problem import TearLayout
 from convergence.settings import SettingsSnapshot
@@ -123,9 +123,7 @@ class BoundedWegstein:
         largest = float(np.max(np.abs(scaled)))
         if largest < EARLY_CONTRACTION * self.first_residual:
             return True
-        first = self.first_scaled
-        norms = float(np.linalg.norm(scaled) * np.linalg.norm(first))
-        return norms > 0.0 and abs(float(scaled @ first)) > PARALLEL * norms
+        return cosine(scaled, self.first_scaled) > PARALLEL
 
     def next_point(self, point: Evaluated, settings: SettingsSnapshot) -> Step:
         """Direct substitution or an accelerated step, as the settings say."""

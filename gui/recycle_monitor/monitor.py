@@ -229,7 +229,8 @@ class RecycleMonitor(QWidget):
         modes = [r.iteration for r in result.history.records if r.step == "dominant mode"]
         if modes:
             text += (
-                "<p>Dominant-mode steps (coupled tears, instead of Wegstein's per-variable q) "
+                "<p>Dominant-mode steps (along a tear's leading modes, instead of Wegstein's "
+                "per-variable q, which the q plot shows) "
                 f"at iteration{'s' if len(modes) > 1 else ''} "
                 + ", ".join(str(iteration) for iteration in modes)
                 + "</p>"
