@@ -97,12 +97,42 @@ class _DivergenceWatch:
         return self.strikes >= settings.divergence_patience
 
 
-def _q_stats(layout: TearLayout, step: Step | None, settings: SettingsSnapshot) -> dict:
+#: A variable moves, for :func:`_mode_step_q`, when its scaled residual is above this
+#: fraction of its tear's largest (below it, rounding: flows an energy loop carries).
+MOVING = 1e-9
+
+
+def _mode_step_q(point: Evaluated, step: Step, part: slice) -> QStats | None:
+    """The q of a dominant-mode step in a tear with one moving variable, the q of
+    x_new = x + (1 - q) (g(x) - x); None for a tear with several (a coupled step has no
+    one q: a variable already at its fixed point, g(x) = x, still moves)."""
+    scaled = np.abs(point.fx[part] / point.scale[part])
+    moving = np.flatnonzero(scaled > MOVING * float(scaled.max()))
+    if moving.size != 1:
+        return None
+    i = part.start + int(moving[0])
+    q = 1.0 - float(step.x_new[i] - point.x[i]) / float(point.fx[i])
+    return QStats(minimum=q, median=q, maximum=q, clipped_low=0, clipped_high=0, count=1)
+
+
+def _q_stats(
+    layout: TearLayout, point: Evaluated, step: Step | None, settings: SettingsSnapshot
+) -> dict:
+    """Per tear, statistics of the q of the step taken (None: no accelerated step).
+
+    A tear that took a dominant-mode step gets the q that step amounts to, or None
+    (:func:`_mode_step_q`): the Wegstein q the rule computed was replaced there, and
+    plotting it would show a step not taken. That q is never counted as clipped: the
+    bounds apply to Wegstein's q only.
+    """
     if step is None or step.q is None:
         return dict.fromkeys(layout.tears)
     low = settings.q_min if step.q_low is None else step.q_low
     high = settings.q_max if step.q_high is None else step.q_high
-    return QStats.per_tear(layout.tear_slices, step.q, step.q_raw, step.guarded, low, high)
+    stats = QStats.per_tear(layout.tear_slices, step.q, step.q_raw, step.guarded, low, high)
+    for tear in step.mode_tears:
+        stats[tear] = _mode_step_q(point, step, layout.tear_slices[tear])
+    return stats
 
 
 def _q_bounds(step: Step | None) -> tuple[float, float] | None:
@@ -194,7 +224,7 @@ class _Run:
             iteration=point.iteration,
             evaluations=self.evaluations,
             residuals=self.layout.per_tear_max(scaled),
-            q=_q_stats(self.layout, step, settings),
+            q=_q_stats(self.layout, point, step, settings),
             settings_version=settings.version,
             settings=settings,
             slopes=slopes,

@@ -230,7 +230,8 @@ class RecycleMonitor(QWidget):
         if modes:
             text += (
                 "<p>Dominant-mode steps (along a tear's leading modes, instead of Wegstein's "
-                "per-variable q, which the q plot shows) "
+                "per-variable q; the q plot shows the q such a step amounts to where one "
+                "variable moves, a gap where several do) "
                 f"at iteration{'s' if len(modes) > 1 else ''} "
                 + ", ".join(str(iteration) for iteration in modes)
                 + "</p>"

@@ -64,7 +64,14 @@ class TearSeries:
     q_band: pg.FillBetweenItem | None = None
 
 
-Q_TITLE = "Wegstein q per tear (median, min–max band)"
+Q_TITLE = "q of each step per tear (median, min–max band)"
+#: What the q plot shows, as its tooltip.
+Q_TOOLTIP = (
+    "Each accelerated step moves a variable to x + (1 − q)(g(x) − x). For a Wegstein step"
+    " this is Wegstein's q, clipped to the q bounds; for a dominant-mode step of a tear"
+    " with one moving variable it is the q that step amounts to, which the bounds do not"
+    " limit. A coupled tear's dominant-mode step has no one q and leaves a gap."
+)
 #: The q plot's title after a run that took no Wegstein step (direct or quasi-Newton).
 NO_Q_TITLE = "Wegstein q: none in this run"
 
@@ -76,6 +83,7 @@ class ConvergencePlots:
         self.residual_plot = _styled_plot("Largest scaled residual per tear", "residual")
         self.residual_plot.getPlotItem().setLogMode(x=False, y=True)
         self.q_plot = _styled_plot(Q_TITLE, "q")
+        self.q_plot.setToolTip(Q_TOOLTIP)
         self.q_plot.setXLink(self.residual_plot)  # the same iterations under both
         self.series: dict[str, TearSeries] = {}
         dashed = pg.mkPen(LIMIT_COLOUR, width=1.5, style=Qt.PenStyle.DashLine)
@@ -161,6 +169,12 @@ class ConvergencePlots:
                 series.q_median.append(stats.median)
                 series.q_minimum.append(stats.minimum)
                 series.q_maximum.append(stats.maximum)
+            elif record.took_mode_step(tear):
+                # a coupled tear's dominant-mode step has no one q: a gap in its curve
+                series.q_iterations.append(record.iteration)
+                series.q_median.append(math.nan)
+                series.q_minimum.append(math.nan)
+                series.q_maximum.append(math.nan)
 
     def redraw(self) -> None:
         """Push the collected numbers into the existing curves; the q plot's title says
@@ -177,9 +191,9 @@ class ConvergencePlots:
                 x, np.asarray(series.residuals, dtype=float), connect="finite"
             )
             qx = np.asarray(series.q_iterations, dtype=float)
-            series.q_curve.setData(qx, np.asarray(series.q_median, dtype=float))
-            series.q_low.setData(qx, np.asarray(series.q_minimum, dtype=float))
-            series.q_high.setData(qx, np.asarray(series.q_maximum, dtype=float))
+            series.q_curve.setData(qx, np.asarray(series.q_median, dtype=float), connect="finite")
+            series.q_low.setData(qx, np.asarray(series.q_minimum, dtype=float), connect="finite")
+            series.q_high.setData(qx, np.asarray(series.q_maximum, dtype=float), connect="finite")
 
     # ---- markers ----------------------------------------------------------------
     def add_marker(self, iteration: int, text: str) -> bool:

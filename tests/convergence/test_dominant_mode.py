@@ -78,3 +78,52 @@ def test_dominant_mode_is_a_saved_setting_checked_like_the_others():
     assert SolverSettings.from_dict(settings.to_dict()).dominant_mode is False
     with pytest.raises(ValueError, match="dominant_mode"):
         SolverSettings(dominant_mode="no")
+
+
+def _recorded(g, x0, tears):
+    points: list[np.ndarray] = []
+
+    def recording(x: np.ndarray) -> np.ndarray:
+        points.append(np.array(x, copy=True))
+        return g(x)
+
+    problem = FixedPointProblem(g=recording, x0=x0, tear_slices=tears)
+    return solve_fixed_point(problem, "wegstein", SolverSettings(tolerance=1e-10)), points
+
+
+def test_a_mode_steps_recorded_q_is_the_q_of_the_step_it_took():
+    # The recycle monitor plots record.q: at a dominant-mode step it must describe the
+    # step taken, x_(k+1) = x_k + (1 - q) (g(x_k) - x_k), not the Wegstein q the step
+    # replaced. One variable, g(x) = 0.95 x + 1 + 0.02 sin x (slope near 0.97, the
+    # secant's q about -30, beyond q_min = -5): q is exactly that of the step.
+    def g(x):
+        return 0.95 * x + 1.0 + 0.02 * np.sin(x)
+
+    result, points = _recorded(g, np.array([1.0]), {"S": slice(0, 1)})
+    checked = 0
+    for record in result.history.records:
+        if record.step != "dominant mode" or record.iteration >= len(points):
+            continue
+        x, x_next = points[record.iteration - 1], points[record.iteration]
+        q = 1.0 - (x_next - x) / (g(x) - x)
+        stats = record.q["S"]
+        assert stats.minimum == stats.median == stats.maximum
+        assert stats.median == pytest.approx(q[0], rel=1e-9)
+        assert stats.clipped_low == stats.clipped_high == 0
+        checked += 1
+    assert checked >= 2
+    assert min(record.q["S"].median for record in result.history.records[1:-1]) < -5.0
+
+
+def test_a_coupled_mode_step_records_no_q():
+    # The coupled isomer map (numpy: M x + b): no one q describes a step on its leading
+    # modes, so the record has none there (the monitor leaves a gap, not a step not
+    # taken), while its Wegstein steps keep theirs.
+    result, _ = _recorded(
+        lambda x: ISOMERS @ x + FEED, np.array([0.0, 5.0]), {"recycle": slice(0, 2)}
+    )
+    modes = [record for record in result.history.records if record.step == "dominant mode"]
+    wegstein = [record for record in result.history.records if record.step == "accelerated"]
+    assert modes and wegstein
+    assert all(record.q["recycle"] is None for record in modes)
+    assert all(record.q["recycle"] is not None for record in wegstein)
