@@ -37,7 +37,11 @@ tests/benchmarks/recycle_cases.py; otherwise the tear keeps Wegstein's step):
   then fell below :data:`PROGRESS` of the one before); otherwise it is left to
   Wegstein and its adaptive bounds, which guard q below q_min and above 1. (An energy
   recycle with 1 % bypass, slope 0.99: 7 passes instead of 9, as many as scipy's
-  broyden1.)
+  broyden1.) From the second such secant step on, the step goes through the last
+  three points instead of two (:func:`curved_secant`, inverse quadratic interpolation)
+  where that moves the variable by at most :data:`CURVATURE` of the secant's step: an
+  energy loop's heat capacities curve its map (the suite's energy recycle then takes
+  5 passes instead of 6, its 40 % bypass variant 4 instead of 5).
 - At the first pair, the step of an early accelerated iteration
   (:meth:`convergence.steps.BoundedWegstein._early`): when the tear's g change is
   parallel to its step, the step is a mode and the one-mode rules above apply (a mode
@@ -68,6 +72,7 @@ above 1/:data:`CLOSEST_TO_ONE`) is not taken.
 
 from __future__ import annotations
 
+import math
 from collections import deque
 
 import numpy as np
@@ -136,6 +141,41 @@ def _one_mode(f: np.ndarray, step: np.ndarray, change: np.ndarray) -> np.ndarray
     difference = change - step
     weight = -float(np.dot(difference, f)) / float(np.dot(difference, difference))
     return f + change * weight
+
+
+#: The curved secant replaces the secant step only where it moves the variable by at
+#: most this fraction of the secant's own step away from it (measured on the energy
+#: loops of the suite, its variants and further scratch loops: 0.25 to 1 give the same
+#: passes); a larger correction means the oldest point lies outside the curve's reach.
+CURVATURE = 0.5
+
+
+def curved_secant(
+    f: float, latest: tuple[float, float], previous: tuple[float, float]
+) -> float | None:
+    """The root of f = g(x) - x by inverse quadratic interpolation through the last three
+    points of one variable, as a displacement from the latest (None: two f values equal).
+
+    ``latest`` and ``previous`` are the (step, g change) pairs of the last two steps;
+    the points are x_k = 0, x_(k-1) = -a_1, x_(k-2) = -a_1 - a_0 with their f values.
+    Inverse quadratic interpolation is the interpolation step of Brent's method (Brent,
+    Algorithms for Minimization without Derivatives, 1973, ch. 4): on a smooth curve its
+    error shrinks with the product of the last three errors, the secant's with two.
+    """
+    (a1, b1), (a0, b0) = latest, previous
+    xs = (0.0, -a1, -a1 - a0)
+    f1 = f - (b1 - a1)
+    fs = (f, f1, f1 - (b0 - a0))
+    if len(set(fs)) < 3:
+        return None
+    total = 0.0
+    for j in range(3):
+        term = xs[j]
+        for m in range(3):
+            if m != j:
+                term *= fs[m] / (fs[j] - fs[m])
+        total += term
+    return total if math.isfinite(total) else None
 
 
 def _leading_modes(f: np.ndarray, steps: np.ndarray, changes: np.ndarray) -> np.ndarray | None:
@@ -227,7 +267,9 @@ class DominantModes:
             # a mode seen at once; one estimate cannot show a mode that grows.
             if cosine(a_latest, b_latest) <= PARALLEL:
                 return None
-            return self._along_one_mode(part, f, (a_latest, b_latest), slopes[usable], None, False)
+            return self._along_one_mode(
+                part, f, (a_latest, b_latest), slopes[usable], None, False, usable
+            )
         a_previous, b_previous = before[-1][0][part] / scale, before[-1][1][part] / scale
         steps = np.column_stack([pair[0][part] / scale for pair in before] + [a_latest])
         changes = np.column_stack([pair[1][part] / scale for pair in before] + [b_latest])
@@ -239,6 +281,7 @@ class DominantModes:
                 slopes[usable],
                 (a_previous, b_previous),
                 progressing and after_secant,
+                usable,
             )
             if one is None or usable.sum() == 1 or steps.shape[1] < MEMORY:
                 return one
@@ -269,6 +312,7 @@ class DominantModes:
         moving_slopes: np.ndarray,
         previous: tuple[np.ndarray, np.ndarray] | None,
         secant_working: bool,
+        usable: np.ndarray,
     ) -> np.ndarray | None:
         """The one-mode step of a tear whose last two steps were parallel, or None.
 
@@ -301,4 +345,26 @@ class DominantModes:
         self.coupled[part.start] = moving_slopes.size > 1
         if moving_slopes.size == 1:
             self.secant.add(part.start)
-        return _one_mode(f, step, change)
+        displacement = _one_mode(f, step, change)
+        if (
+            displacement is not None
+            and moving_slopes.size == 1
+            and previous is not None
+            and eigenvalue > 0.0
+        ):
+            # The secant working on one variable: through three points, its curve.
+            # (Not for a negative slope: that damping is an interpolation between x and
+            # g(x), and the oscillating loops' first points, from a zero-flow start, lie
+            # off the curve: 4 passes became 5.)
+            i = int(np.flatnonzero(usable)[0])
+            curved = curved_secant(
+                float(f[i]),
+                (float(step[i]), float(change[i])),
+                (float(previous[0][i]), float(previous[1][i])),
+            )
+            if curved is not None and abs(curved - displacement[i]) <= CURVATURE * abs(
+                displacement[i]
+            ):
+                displacement = displacement.copy()
+                displacement[i] = curved
+        return displacement
