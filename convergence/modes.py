@@ -32,20 +32,23 @@ tests/benchmarks/recycle_cases.py; otherwise the tear keeps Wegstein's step):
   own case:
   there a negative slope is taken this way (a damping q = lambda/(lambda - 1)
   between 0 and 1 without waiting for two agreeing slopes: a point between x and
-  g(x), never an extrapolation); a positive one below 1 only at the first pair and
-  while the secant works (the tear's previous step was this step and its residual
-  then fell below :data:`PROGRESS` of the one before); otherwise it is left to
-  Wegstein and its adaptive bounds, which guard q below q_min and above 1. (An energy
-  recycle with 1 % bypass, slope 0.99: 7 passes instead of 9, as many as scipy's
-  broyden1.) From the second such secant step on, the step goes through the last
-  three points instead of two (:func:`curved_secant`, inverse quadratic interpolation)
-  where that moves the variable by at most :data:`CURVATURE` of the secant's step: an
-  energy loop's heat capacities curve its map (the suite's energy recycle then takes
-  5 passes instead of 6, its 40 % bypass variant 4 instead of 5).
+  g(x), never an extrapolation); a positive one at the first pair and while the
+  secant works (the tear's previous step was this step and its residual then fell
+  below :data:`PROGRESS` of the one before), and one above 1 also where the last two
+  pairs agree on it (direct substitution diverging: no q within the bounds turns it
+  back; a slope-1.3 line is then exact at iteration 2, as with our Broyden, instead
+  of at 4); otherwise it is left to Wegstein and its adaptive bounds, which guard q
+  below q_min and above 1. (An energy recycle with 1 % bypass, slope 0.99: 7 passes
+  instead of 9, as many as scipy's broyden1.) From the second such secant step on,
+  the step goes through the last three points instead of two (:func:`curved_secant`,
+  inverse quadratic interpolation) where that moves the variable by at most
+  :data:`CURVATURE` of the secant's step: an energy loop's heat capacities curve its
+  map (the suite's energy recycle then takes 5 passes instead of 6, its 40 % bypass
+  variant 4 instead of 5).
 - At the first pair, the step of an early accelerated iteration
   (:meth:`convergence.steps.BoundedWegstein._early`): when the tear's g change is
-  parallel to its step, the step is a mode and the one-mode rules above apply (a mode
-  that grows is not trusted from one pair).
+  parallel to its step, the step is a mode and the one-mode rules above apply (with
+  several moving variables a mode that grows is not trusted from one pair).
 - Its last two steps are parallel, it has several moving variables, and both of its
   last two difference pairs give a mode that grows, lambda > 1, agreeing within
   :data:`MISFIT` of lambda - 1: the one-mode step as above, whatever the per-variable
@@ -319,27 +322,29 @@ class DominantModes:
         ``previous`` is the pair before the latest (None at the first pair)."""
         step, change = latest
         eigenvalue = float(np.dot(change, step)) / float(np.dot(step, step))
+        # Two estimates of the slope agree: the pair before gives it within MISFIT of
+        # |1 - lambda|, the quantity the step divides by.
+        before = None if previous is None else _quotient(*previous)
+        agreeing = before is not None and abs(eigenvalue - before) <= MISFIT * abs(1.0 - eigenvalue)
         if moving_slopes.size == 1:
             # One moving variable: Wegstein's own case; a damping q, or the secant step
-            # at the first pair and while it works.
-            allowed = eigenvalue < 0.0 or (
-                eigenvalue < 1.0 and (previous is None or secant_working)
+            # at the first pair and while it works, and for a slope above 1 (direct
+            # substitution diverging: no q within the bounds turns it back) also where
+            # the last two pairs agree on it.
+            allowed = (
+                eigenvalue < 0.0
+                or previous is None
+                or secant_working
+                or (eigenvalue > 1.0 and agreeing)
             )
         else:
             spread = float(np.max(np.abs(moving_slopes - eigenvalue)))
             uniform = spread <= UNIFORM * abs(1.0 - eigenvalue)
             # A mode that grows steadily (lambda > 1 from both of the last two pairs,
-            # agreeing within MISFIT of lambda - 1) is one no q within the bounds can
-            # turn back, whatever the per-variable slopes say: the step along it is
-            # taken. One estimate alone is not enough: from a zero-flow start the first
-            # quotients are noise.
-            before = None if previous is None else _quotient(*previous)
-            growing = (
-                eigenvalue > 1.0
-                and before is not None
-                and abs(eigenvalue - before) <= MISFIT * (eigenvalue - 1.0)
-            )
-            allowed = (uniform and eigenvalue < 1.0) or growing
+            # agreeing) is one no q within the bounds can turn back, whatever the
+            # per-variable slopes say: the step along it is taken. One estimate alone
+            # is not enough: from a zero-flow start the first quotients are noise.
+            allowed = (uniform and eigenvalue < 1.0) or (eigenvalue > 1.0 and agreeing)
         if not allowed:
             return None
         self.coupled[part.start] = moving_slopes.size > 1

@@ -94,3 +94,44 @@ def test_no_more_passes_than_scipy_broyden1_where_the_first_steps_closed_the_gap
         broyden1, outside_converged = _passes("scipy broyden1", build())
     assert converged and outside_converged
     assert TOLERANCE == 1e-8 and default <= broyden1
+
+
+def _diverging_maps():
+    # One variable, direct substitution diverging at the fixed point (slope above 1):
+    # affine maps, whose fixed point is offset / (1 - s), and two curved ones.
+    return {
+        "slope 1.05": (lambda x: 1.05 * x - 0.5, 5.0),
+        "slope 1.3": (lambda x: 1.3 * x - 3.0, 5.0),
+        "slope 2": (lambda x: 2.0 * x - 10.0, 8.0),
+        "quadratic, slope 1.2": (lambda x: 1.2 * x - 2.0 + 0.01 * (x - 10.0) ** 2, 8.0),
+        "cubic, slope 1.2": (lambda x: 1.2 * x - 0.6 + 0.05 * (x - 3.0) ** 3, 3.5),
+    }
+
+
+@pytest.mark.parametrize("name", list(_diverging_maps()))
+def test_a_one_variable_loop_whose_direct_substitution_diverges_takes_the_secant(name):
+    # No q within the default bounds turns a slope above 1 back, so the one variable
+    # takes the secant step x + f/(1 - s) from its first pair on (Wegstein 1958: exact
+    # for an affine map). Checked against scipy's brentq for the fixed point and, for
+    # the passes, against our own Broyden and scipy's broyden1 and anderson (polykin's
+    # Wegstein, q at most 0, does not converge these), all stopped on the residual.
+    from scipy.optimize import brentq, root
+
+    g, x0 = _diverging_maps()[name]
+    fixed = brentq(lambda x: g(x) - x, 0.0, 20.0, xtol=1e-14)  # one root there
+    problem = FixedPointProblem(g=g, x0=np.array([x0]), tear_slices={"S": slice(0, 1)})
+    settings = SolverSettings(tolerance=1e-8, stop_on="residual")
+    result = solve_fixed_point(problem, "wegstein", settings)
+    assert result.converged and result.x[0] == pytest.approx(fixed, rel=1e-7)
+    assert result.history.records[1].step == "dominant mode"
+    broyden = solve_fixed_point(problem, "broyden", settings)
+    assert broyden.converged and result.evaluations <= broyden.evaluations
+    for method in ("broyden1", "anderson"):
+        calls = []
+
+        def residual(y, calls=calls):
+            calls.append(1)
+            return g(y) - y
+
+        answer = root(residual, np.array([x0]), method=method, options={"fatol": 1e-8 * fixed})
+        assert answer.success and result.evaluations <= len(calls), method
