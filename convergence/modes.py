@@ -267,7 +267,8 @@ class DominantModes:
         np.divide(b_latest, a_latest, out=slopes, where=usable)
         if not before:
             # The first pair (an early accelerated step): a g change along its step is
-            # a mode seen at once; one estimate cannot show a mode that grows.
+            # a mode seen at once (with several moving variables one estimate cannot
+            # show a mode that grows, see _along_one_mode).
             if cosine(a_latest, b_latest) <= PARALLEL:
                 return None
             return self._along_one_mode(
