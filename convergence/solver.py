@@ -97,20 +97,20 @@ class _DivergenceWatch:
         return self.strikes >= settings.divergence_patience
 
 
-#: A variable moves, for :func:`_mode_step_q`, when its scaled residual is above this
-#: fraction of its tear's largest (below it, rounding: flows an energy loop carries).
-MOVING = 1e-9
-
-
 def _mode_step_q(point: Evaluated, step: Step, part: slice) -> QStats | None:
     """The q of a dominant-mode step in a tear with one moving variable, the q of
     x_new = x + (1 - q) (g(x) - x); None for a tear with several (a coupled step has no
-    one q: a variable already at its fixed point, g(x) = x, still moves)."""
-    scaled = np.abs(point.fx[part] / point.scale[part])
-    moving = np.flatnonzero(scaled > MOVING * float(scaled.max()))
+    one q: a variable already at its fixed point, g(x) = x, still moves).
+
+    A variable moves where its last step was usable for a slope (``point.usable``), the
+    test the mode rule itself counts moving variables by (:mod:`convergence.modes`).
+    """
+    moving = np.flatnonzero(point.usable[part])
     if moving.size != 1:
         return None
     i = part.start + int(moving[0])
+    if point.fx[i] == 0.0:
+        return None  # at its own fixed point already: the step moved the others
     q = 1.0 - float(step.x_new[i] - point.x[i]) / float(point.fx[i])
     return QStats(minimum=q, median=q, maximum=q, clipped_low=0, clipped_high=0, count=1)
 

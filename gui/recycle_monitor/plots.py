@@ -39,6 +39,9 @@ def _styled_plot(title: str, left: str) -> pg.PlotWidget:
         axis = item.getAxis(name)
         axis.setPen(pg.mkPen(AXIS_COLOUR))
         axis.setTextPen(pg.mkPen(AXIS_COLOUR))
+        # no "(x0.001)" scale on the label: the ticks then read as the values do
+        # (a log axis scaled so showed the tolerance 1e-8 at its "1e-5" tick)
+        axis.enableAutoSIPrefix(False)
     item.addLegend(
         offset=(-10, 10), labelTextColor=AXIS_COLOUR, brush=pg.mkBrush(255, 255, 255, 200)
     )

@@ -75,7 +75,7 @@ def test_q_above_one_is_not_granted_to_a_run_that_is_not_drifting():
     # the residual on their own scale creeps down towards 1, so it never is: the run is
     # reported diverging, as at fixed bounds, and the diagnosis's advice closes it. (The
     # bounds rule alone: with the dominant-mode step, the default, the one variable's
-    # secant closes this loop, see test_dominant_mode.py.)
+    # secant closes this loop, see test_first_step.py.)
     adaptive = solve_fixed_point(_affine(2.0), "wegstein", SolverSettings(dominant_mode=False))
     assert adaptive.status == "diverging"
     assert not adaptive.history.events_of("settings changed")

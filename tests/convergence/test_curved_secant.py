@@ -53,8 +53,9 @@ def _gently_curved(x):
 
 
 def test_a_gently_curved_loop_needs_no_more_passes_than_outside_methods():
-    # The secant alone took 7 passes here (measured when the curved secant came in);
-    # through three points, 6. Counted as the benchmark counts: every call of g.
+    # The secant alone took 7 passes here (measured when the curved secant came in),
+    # as many as polykin's Wegstein; through three points, 6. Counted as the benchmark
+    # counts: every call of g.
     root = brentq(lambda x: _gently_curved(x) - x, 1.0, 100.0, xtol=1e-14)
     problem = FixedPointProblem(
         g=_gently_curved, x0=np.array([1.0]), tear_slices={"S": slice(0, 1)}
@@ -68,7 +69,7 @@ def test_a_gently_curved_loop_needs_no_more_passes_than_outside_methods():
         return _gently_curved(x)
 
     outside = fixpoint_wegstein(counted, np.array([1.0]), tolx=1e-12)
-    assert outside.success and result.evaluations <= len(calls)
+    assert outside.success and result.evaluations < len(calls)
 
 
 @pytest.mark.parametrize(

@@ -90,6 +90,11 @@ def test_curves_are_created_once_and_updated(qtbot, monitor):
     assert [label.text for _sample, label in legend.items] == ["S5", "S9"]
     # tolerance line on the log axis sits at log10(tolerance)
     assert monitor.plots.tolerance_line.value() == pytest.approx(math.log10(1e-8))
+    # the ticks read as the values: no SI scale factor on the axis labels
+    for plot in (monitor.plots.residual_plot, monitor.plots.q_plot):
+        for name in ("left", "bottom"):
+            axis = plot.getPlotItem().getAxis(name)
+            assert axis.autoSIPrefixScale == 1.0 and "x0" not in axis.labelString()
 
 
 def test_settings_change_marks_both_plots(qtbot, monitor):
