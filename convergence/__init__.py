@@ -8,7 +8,12 @@ per-tear history and tear diagnosis. By default a run stops on the estimated err
 (:mod:`convergence.coupling`). Imports numpy and scipy only.
 """
 
-from convergence.diagnosis import TearDiagnosis, diagnose_tears, suggested_bounds
+from convergence.diagnosis import (
+    TearDiagnosis,
+    bounds_in_force,
+    diagnose_tears,
+    suggested_bounds,
+)
 from convergence.errors import ConvergenceInputError, UnknownSettingError
 from convergence.history import ConvergenceHistory, Event, IterationRecord, QStats
 from convergence.problem import FixedPointProblem
@@ -30,6 +35,7 @@ __all__ = [
     "SolverSettings",
     "TearDiagnosis",
     "UnknownSettingError",
+    "bounds_in_force",
     "diagnose_tears",
     "solve_fixed_point",
     "suggested_bounds",

@@ -22,6 +22,7 @@ from convergence import (
     ConvergenceInputError,
     SolverSettings,
     TearDiagnosis,
+    bounds_in_force,
     diagnose_tears,
 )
 
@@ -266,7 +267,12 @@ class RecycleMonitor(QWidget):
 
     def _draw_limits(self, snapshot: Any) -> None:
         self.plots.set_tolerance(snapshot.tolerance)
-        self.plots.set_q_bounds(snapshot.q_min, snapshot.q_max)
+        in_force = (
+            bounds_in_force(ConvergenceHistory(records=self._records), snapshot)
+            if self._records
+            else None
+        )
+        self.plots.set_q_bounds(snapshot.q_min, snapshot.q_max, in_force)
 
     def _live_diagnosis(self) -> dict[str, TearDiagnosis]:
         """Every tear diagnosed from its own part's records (the solve converges the

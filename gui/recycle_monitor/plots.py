@@ -67,7 +67,7 @@ class TearSeries:
     q_band: pg.FillBetweenItem | None = None
 
 
-Q_TITLE = "q of each step per tear (median, min–max band)"
+Q_TITLE = "q per tear (median, min–max band)"
 #: What the q plot shows, as its tooltip.
 Q_TOOLTIP = (
     "Each accelerated step moves a variable to x + (1 − q)(g(x) − x). For a Wegstein step"
@@ -91,14 +91,18 @@ class ConvergencePlots:
         self.series: dict[str, TearSeries] = {}
         dashed = pg.mkPen(LIMIT_COLOUR, width=1.5, style=Qt.PenStyle.DashLine)
         self.tolerance_line = pg.InfiniteLine(
-            angle=0, pen=dashed, label="tolerance", labelOpts=_label_options(above=True)
+            angle=0, pen=dashed, label="tolerance", labelOpts=_label_options()
         )
-        # labels between the two bounds, so neither is cut off at the edge of the plot
+        # q_max's label left of the legend in the top right corner; both labels face
+        # the middle of the view, so neither is cut off at the edge of the plot
         self.q_min_line = pg.InfiniteLine(
-            angle=0, pen=dashed, label="q_min", labelOpts=_label_options(above=True)
+            angle=0, pen=dashed, label="q_min", labelOpts=_label_options()
         )
         self.q_max_line = pg.InfiniteLine(
-            angle=0, pen=dashed, label="q_max", labelOpts=_label_options(above=False)
+            angle=0,
+            pen=dashed,
+            label="q_max",
+            labelOpts=_label_options(position=0.6),
         )
         self.residual_plot.addItem(self.tolerance_line)
         self.q_plot.addItem(self.q_min_line)
@@ -111,11 +115,18 @@ class ConvergencePlots:
         self.tolerance_line.setValue(math.log10(tolerance))
         self.tolerance_line.label.setFormat(f"tolerance {tolerance:g}")
 
-    def set_q_bounds(self, q_min: float, q_max: float) -> None:
+    def set_q_bounds(
+        self, q_min: float, q_max: float, in_force: tuple[float, float] | None = None
+    ) -> None:
+        """Draw the settings' q bounds; ``in_force`` are the bounds the run last used
+        (:func:`convergence.diagnosis.bounds_in_force`), named in a label where the run
+        widened one (the lines stay at the settings' values: a widening is per variable,
+        and a line at q = -87 would squash every tear's curve)."""
+        low, high = in_force if in_force is not None else (q_min, q_max)
         self.q_min_line.setValue(q_min)
         self.q_max_line.setValue(q_max)
-        self.q_min_line.label.setFormat(f"q_min {q_min:g}")
-        self.q_max_line.label.setFormat(f"q_max {q_max:g}")
+        self.q_min_line.label.setFormat(_bound_text("q_min", q_min, low))
+        self.q_max_line.label.setFormat(_bound_text("q_max", q_max, high))
 
     # ---- data -------------------------------------------------------------------
     def clear(self) -> None:
@@ -204,10 +215,17 @@ class ConvergencePlots:
         if iteration in self.markers:
             return False
         pen = pg.mkPen(MARKER_COLOUR, width=1.5, style=Qt.PenStyle.DotLine)
+        label = text.split(" for ", 1)[0]  # "q_min -5 -> -87"; the reason is in the tooltip
         lines = []
-        for plot in (self.residual_plot, self.q_plot):
+        # near the bottom of the residual plot (a converged run's tolerance line is
+        # higher), a quarter up the q plot (clear of the q_min label at its bottom)
+        for plot, height in ((self.residual_plot, 0.04), (self.q_plot, 0.25)):
             line = pg.InfiniteLine(
-                pos=iteration, angle=90, pen=pen, label=text, labelOpts=_marker_label_options()
+                pos=iteration,
+                angle=90,
+                pen=pen,
+                label=label,
+                labelOpts=_marker_label_options(height),
             )
             line.setToolTip(text)
             plot.addItem(line, ignoreBounds=True)
@@ -228,24 +246,32 @@ def _symbols_while_few(series: TearSeries, count: int) -> None:
             curve.setSymbol(symbol)
 
 
-def _label_options(above: bool) -> dict:
-    """A limit line's label at the right end, just above (or below) the line."""
-    anchor = (1.0, 1.0) if above else (1.0, 0.0)
+def _label_options(position: float = 0.98) -> dict:
+    """A limit line's label ending at ``position`` along it (0.98: the right end), on
+    the side of the line facing the middle of the view (pyqtgraph picks one of the two
+    anchors by that side): a bound at the top of the plot is labelled below its line."""
     return {
-        "position": 0.98,
+        "position": position,
         "color": LIMIT_COLOUR,
-        "anchors": [anchor, anchor],
+        "anchors": [(1.0, 0.0), (1.0, 1.0)],
         "fill": pg.mkBrush(255, 255, 255, 170),
         "movable": False,
     }
 
 
-def _marker_label_options() -> dict:
-    """A settings marker's label near the bottom, to the right of the line."""
+def _bound_text(name: str, setting: float, in_force: float) -> str:
+    """``"q_min -5"``, or ``"q_min -5 (run: -87)"`` where the run widened it."""
+    return f"{name} {setting:g}" + (f" (run: {in_force:g})" if in_force != setting else "")
+
+
+def _marker_label_options(height: float) -> dict:
+    """A settings marker's label at ``height`` up the line, on the side of the line
+    facing the middle of the view (pyqtgraph picks one of the two anchors by that side),
+    so a marker near the right edge is not cut off."""
     return {
-        "position": 0.04,
+        "position": height,
         "color": MARKER_COLOUR,
-        "anchors": [(0.0, 1.0), (0.0, 1.0)],
+        "anchors": [(0.0, 1.0), (1.0, 1.0)],
         "fill": pg.mkBrush(255, 255, 255, 190),
         "movable": False,
     }

@@ -27,7 +27,7 @@ class TargetPlot:
         item.setLabel("bottom", "outer iteration")
         dashed = pg.mkPen(LIMIT_COLOUR, width=1.5, style=Qt.PenStyle.DashLine)
         self.tolerance_line = pg.InfiniteLine(
-            angle=0, pen=dashed, label="target tolerance", labelOpts=_label_options(above=True)
+            angle=0, pen=dashed, label="target tolerance", labelOpts=_label_options()
         )
         self.plot.addItem(self.tolerance_line)
         self.set_tolerance(1e-7)

@@ -15,6 +15,7 @@ from convergence import (  # noqa: E402
     IterationRecord,
     QStats,
     SolverSettings,
+    bounds_in_force,
     diagnose_tears,
     solve_fixed_point,
 )
@@ -247,3 +248,56 @@ def test_a_run_without_wegstein_steps_says_so_and_no_target_plot_without_targets
     assert monitor.grab().save(str(screenshot_dir / "monitor_broyden_run.png"))
     monitor.show_history(solve_fixed_point(problem, "wegstein", settings))
     assert Q_TITLE in title.text and NO_Q_TITLE not in title.text
+
+
+def test_bounds_the_run_widened_are_named_and_marker_labels_stay_in_view(
+    qtbot, monitor, screenshot_dir
+):
+    # A linear map of slope 0.99 wants Wegstein's q = s / (s - 1) = -99 (Wegstein 1958),
+    # below q_min = -5: with the dominant-mode step off, the run widens q_min itself.
+    settings = SolverSettings(dominant_mode=False)
+    monitor.bind_settings(settings)
+    problem = FixedPointProblem(
+        lambda x: 0.99 * x + np.array([1.0, 2.0]), np.array([50.0, 100.0]), {"T": slice(0, 2)}
+    )
+    result = solve_fixed_point(problem, "wegstein", settings)
+    widened = bounds_in_force(result.history, settings.snapshot())
+    assert widened[0] < settings.q_min
+    monitor.resize(1000, 700)
+    monitor.show_history(result)
+    qtbot.wait(20)
+    plots = monitor.plots
+    # the line stays at the settings' bound (a widening is per variable); its label
+    # names the bound the run used
+    assert plots.q_min_line.value() == settings.q_min
+    assert plots.q_min_line.label.format == f"q_min {settings.q_min:g} (run: {widened[0]:g})"
+    assert plots.q_max_line.label.format == f"q_max {settings.q_max:g}"
+    (event,) = result.history.events_of("settings changed")
+    residual_marker, q_marker = plots.markers[event.iteration]
+    # a short label, the whole note in the tooltip
+    assert residual_marker.label.format == f"q_min {settings.q_min:g} -> {widened[0]:g}"
+    assert residual_marker.toolTip() == event.detail.split(": ", 1)[-1]
+    # the marker sits at the right of the view: its label is drawn to its left, inside
+    for plot, marker in ((plots.residual_plot, residual_marker), (plots.q_plot, q_marker)):
+        view = plot.getPlotItem().getViewBox().sceneBoundingRect()
+        label = marker.label.sceneBoundingRect()
+        assert view.left() <= label.left() and label.right() <= view.right() + 1
+        # and each plot fits its widget (a long title once widened the q plot past it)
+        assert plot.getPlotItem().sceneBoundingRect().width() <= plot.width() + 1
+    assert monitor.grab().save(str(screenshot_dir / "monitor_widened_bounds.png"))
+
+
+def test_a_marker_near_the_left_edge_puts_its_label_to_its_right(qtbot, monitor):
+    settings = SolverSettings()
+    monitor.bind_settings(settings)
+    monitor.begin_run()
+    for iteration in range(1, 12):
+        monitor.add_record(record(iteration, settings, {"S5": 0.5**iteration}))
+    monitor.redraw()
+    assert monitor.plots.add_marker(2, "q_max 0 → 0.5")
+    qtbot.wait(20)
+    for line in monitor.plots.markers[2]:
+        view = line.getViewBox().sceneBoundingRect()
+        label = line.label.sceneBoundingRect()
+        x = line.sceneBoundingRect().center().x()
+        assert label.left() >= x - 1 and label.right() <= view.right()
